@@ -1,0 +1,565 @@
+//! The typed values [`Sq`] and [`Uq`]: the format is part of the type.
+//!
+//! Their methods are defined once in [`typed_common!`] for both, and every
+//! computation calls a kernel of [`crate::kernel`] with the formats as
+//! constants.
+
+use core::cmp::Ordering;
+use core::fmt;
+use core::hash::{Hash, Hasher};
+use core::marker::PhantomData;
+
+use typenum::Unsigned;
+
+use crate::format::Format;
+use crate::kernel;
+use crate::layout::{SignedLayout, UnsignedLayout};
+use crate::overflow::{Overflow, RangeError};
+use crate::rounding::Rounding;
+use crate::storage::{Storage, WorkInt};
+use crate::value::QValue;
+
+mod sealed {
+    pub trait Sealed {}
+}
+
+/// A fixed-point value whose format is fixed by its type: [`Sq`] and [`Uq`].
+///
+/// Sealed; use it as a bound for code that works on any typed format.
+///
+/// ```
+/// use qbound::{QType, Q, UQ, Format};
+/// fn describe<T: QType>() -> Format { T::FORMAT }
+/// assert_eq!(describe::<Q<7, 8>>().to_string(), "Q7.8");
+/// assert_eq!(describe::<UQ<8, 8>>().to_string(), "UQ8.8");
+/// ```
+pub trait QType: Copy + Default + Eq + Ord + Hash + fmt::Debug + sealed::Sealed {
+    /// The native integer the bits live in.
+    type Storage: Storage;
+    /// The format.
+    const FORMAT: Format;
+    /// The smallest value.
+    const MIN: Self;
+    /// The largest value.
+    const MAX: Self;
+    /// Zero.
+    const ZERO: Self;
+    /// The step between neighbouring values: one ulp, `2^-F`.
+    const STEP: Self;
+
+    /// The stored integer: the value times `2^F`.
+    fn to_bits(self) -> Self::Storage;
+
+    /// The value with these bits, or `None` if the bits are outside the
+    /// format's range (the bits above the word length must repeat the sign
+    /// bit, or be zero for unsigned formats).
+    fn checked_from_bits(bits: Self::Storage) -> Option<Self>;
+
+    /// The value whose bits are the low word-length bits of `bits`.
+    fn wrapping_from_bits(bits: Self::Storage) -> Self;
+
+    /// The value as a run-time [`QValue`].
+    fn to_value(self) -> QValue;
+}
+
+macro_rules! typed_common {
+    ($name:ident, $layout:ident, $signed:expr) => {
+        impl<I: $layout<F>, F: Unsigned> sealed::Sealed for $name<I, F> {}
+
+        impl<I: $layout<F>, F: Unsigned> Clone for $name<I, F> {
+            #[inline(always)]
+            fn clone(&self) -> Self {
+                *self
+            }
+        }
+        impl<I: $layout<F>, F: Unsigned> Copy for $name<I, F> {}
+
+        impl<I: $layout<F>, F: Unsigned> Default for $name<I, F> {
+            /// Zero.
+            #[inline(always)]
+            fn default() -> Self {
+                Self::ZERO
+            }
+        }
+
+        impl<I: $layout<F>, F: Unsigned> Eq for $name<I, F> {}
+
+        impl<I: $layout<F>, F: Unsigned> Ord for $name<I, F> {
+            #[inline(always)]
+            fn cmp(&self, other: &Self) -> Ordering {
+                self.bits.cmp(&other.bits)
+            }
+        }
+
+        impl<I: $layout<F>, F: Unsigned> Hash for $name<I, F> {
+            fn hash<H: Hasher>(&self, state: &mut H) {
+                self.bits.hash(state)
+            }
+        }
+
+        impl<I: $layout<F>, F: Unsigned> fmt::Debug for $name<I, F> {
+            /// The stored bits and the format, e.g. `Q7.8(bits=25)`.
+            fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+                write!(f, "{}(bits={:?})", Self::FORMAT, self.bits)
+            }
+        }
+
+        impl<I: $layout<F>, F: Unsigned> QType for $name<I, F> {
+            type Storage = <I as $layout<F>>::Storage;
+            const FORMAT: Format = Format::new_const($signed, I::U32, F::U32);
+            const MIN: Self = Self::from_bits_unchecked(Self::MIN_BITS);
+            const MAX: Self = Self::from_bits_unchecked(<I as $layout<F>>::MAX_BITS);
+            const ZERO: Self = Self::from_bits_unchecked(<Self::Storage as Storage>::ZERO);
+            const STEP: Self = Self::from_bits_unchecked(<Self::Storage as Storage>::ONE);
+
+            #[inline(always)]
+            fn to_bits(self) -> Self::Storage {
+                self.bits
+            }
+
+            #[inline(always)]
+            fn checked_from_bits(bits: Self::Storage) -> Option<Self> {
+                if bits.extend_from(<I as $layout<F>>::WIDTH) == bits {
+                    Some(Self::from_bits_unchecked(bits))
+                } else {
+                    None
+                }
+            }
+
+            #[inline(always)]
+            fn wrapping_from_bits(bits: Self::Storage) -> Self {
+                Self::from_bits_unchecked(bits.extend_from(<I as $layout<F>>::WIDTH))
+            }
+
+            #[inline]
+            fn to_value(self) -> QValue {
+                QValue::from_wide_unchecked(Self::FORMAT, self.bits.to_wide())
+            }
+        }
+
+        impl<I: $layout<F>, F: Unsigned> $name<I, F> {
+            /// The format (also [`QType::FORMAT`]).
+            pub const FORMAT: Format = <Self as QType>::FORMAT;
+            /// The smallest value.
+            pub const MIN: Self = <Self as QType>::MIN;
+            /// The largest value.
+            pub const MAX: Self = <Self as QType>::MAX;
+            /// Zero.
+            pub const ZERO: Self = <Self as QType>::ZERO;
+            /// One step (ulp): the smallest positive value, `2^-F`.
+            pub const STEP: Self = <Self as QType>::STEP;
+
+            #[inline(always)]
+            pub(crate) const fn from_bits_unchecked(bits: <I as $layout<F>>::Storage) -> Self {
+                Self {
+                    bits,
+                    _frac: PhantomData,
+                }
+            }
+
+            /// The value whose stored integer is `bits` (value = bits × 2^-F).
+            ///
+            /// # Panics
+            /// If `bits` lies outside the format's range; see
+            /// [`Self::checked_from_bits`] and [`Self::wrapping_from_bits`]
+            /// for the forms that do not panic.
+            #[inline]
+            #[track_caller]
+            pub fn from_bits(bits: <I as $layout<F>>::Storage) -> Self {
+                match <Self as QType>::checked_from_bits(bits) {
+                    Some(v) => v,
+                    None => panic!(
+                        "qbound: bits {:?} lie outside the range of {}",
+                        bits,
+                        Self::FORMAT
+                    ),
+                }
+            }
+
+            /// The value whose stored integer is `bits`, or `None` if the bits
+            /// are outside the format's range.
+            #[inline]
+            pub fn checked_from_bits(bits: <I as $layout<F>>::Storage) -> Option<Self> {
+                <Self as QType>::checked_from_bits(bits)
+            }
+
+            /// The value whose stored integer is the low word-length bits of
+            /// `bits`, sign- or zero-extended.
+            #[inline]
+            pub fn wrapping_from_bits(bits: <I as $layout<F>>::Storage) -> Self {
+                <Self as QType>::wrapping_from_bits(bits)
+            }
+
+            /// The stored integer: the value times `2^F`.
+            #[inline(always)]
+            #[must_use]
+            pub const fn to_bits(self) -> <I as $layout<F>>::Storage {
+                self.bits
+            }
+
+            /// The value as a run-time [`QValue`].
+            #[inline]
+            #[must_use]
+            pub fn to_value(self) -> QValue {
+                <Self as QType>::to_value(self)
+            }
+
+            /// The value of a [`QValue`] of exactly this format, or `None` if
+            /// the formats differ.
+            #[inline]
+            #[must_use]
+            pub fn from_value(v: QValue) -> Option<Self> {
+                if v.format() != Self::FORMAT {
+                    return None;
+                }
+                Some(Self::from_bits_unchecked(<Self as QType>::Storage::from_u128_bits(
+                    v.bits().low_bits(),
+                )))
+            }
+
+            /// Round into the format of `T`, with a rounding mode and an
+            /// overflow mode. This is the one place a value loses
+            /// information: fraction bits with `rounding`, integer bits with
+            /// `overflow`.
+            ///
+            /// With literal modes the choice is folded away at compile time.
+            ///
+            /// # Panics
+            /// With [`Overflow::Panic`], if the rounded value does not fit.
+            #[inline(always)]
+            #[track_caller]
+            pub fn rescale<T: QType>(self, rounding: Rounding, overflow: Overflow) -> T {
+                let fitted = kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
+                T::wrapping_from_bits(fitted.resolve(T::FORMAT, overflow))
+            }
+
+            /// Round into the format of `T`; `None` if the rounded value does
+            /// not fit.
+            #[inline(always)]
+            pub fn checked_rescale<T: QType>(self, rounding: Rounding) -> Option<T> {
+                self.try_rescale(rounding).ok()
+            }
+
+            /// Round into the format of `T`; an error that says on which side
+            /// of the range the rounded value fell if it does not fit.
+            #[inline(always)]
+            pub fn try_rescale<T: QType>(self, rounding: Rounding) -> Result<T, RangeError> {
+                let fitted = kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
+                fitted.checked(T::FORMAT).map(T::wrapping_from_bits)
+            }
+
+            /// Convert into a format that holds every value of this one: no
+            /// rounding, no overflow, checked at compile time.
+            #[inline(always)]
+            pub fn widen<T: QType>(self) -> T
+            where
+                Self: WidensTo<T>,
+            {
+                let fitted = kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, Rounding::Floor);
+                T::wrapping_from_bits(fitted.wrapped)
+            }
+
+            /// The product rounded into the format of `T`, for any operand
+            /// formats: the exact product is formed in as many bits as it
+            /// needs (up to 257), then rounded once. Use it where the exact
+            /// product type would pass 128 bits.
+            ///
+            /// # Panics
+            /// With [`Overflow::Panic`], if the rounded product does not fit.
+            #[inline(always)]
+            #[track_caller]
+            pub fn mul_rescale<R: QType, T: QType>(self, rhs: R, rounding: Rounding, overflow: Overflow) -> T {
+                let fitted = kernel::mul_rescale::<_, _, T::Storage>(
+                    self.bits,
+                    Self::FORMAT,
+                    rhs.to_bits(),
+                    R::FORMAT,
+                    T::FORMAT,
+                    rounding,
+                );
+                T::wrapping_from_bits(fitted.resolve(T::FORMAT, overflow))
+            }
+
+            /// The product rounded into the format of `T`, or an error if it
+            /// does not fit.
+            #[inline(always)]
+            pub fn try_mul_rescale<R: QType, T: QType>(self, rhs: R, rounding: Rounding) -> Result<T, RangeError> {
+                let fitted = kernel::mul_rescale::<_, _, T::Storage>(
+                    self.bits,
+                    Self::FORMAT,
+                    rhs.to_bits(),
+                    R::FORMAT,
+                    T::FORMAT,
+                    rounding,
+                );
+                fitted.checked(T::FORMAT).map(T::wrapping_from_bits)
+            }
+
+            #[inline(always)]
+            #[track_caller]
+            fn resolve(f: kernel::Fitted<<I as $layout<F>>::Storage>, overflow: Overflow) -> Self {
+                Self::from_bits_unchecked(f.resolve(Self::FORMAT, overflow))
+            }
+
+            /// `self + rhs` in this format, wrapping around on overflow.
+            #[inline(always)]
+            #[must_use]
+            pub fn wrapping_add(self, rhs: Self) -> Self {
+                Self::resolve(kernel::add_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Wrap)
+            }
+            /// `self + rhs` in this format, clamped to the range.
+            #[inline(always)]
+            #[must_use]
+            pub fn saturating_add(self, rhs: Self) -> Self {
+                Self::resolve(kernel::add_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Saturate)
+            }
+            /// `self + rhs` in this format, or `None` on overflow.
+            #[inline(always)]
+            #[must_use]
+            pub fn checked_add(self, rhs: Self) -> Option<Self> {
+                let f = kernel::add_same(self.bits, rhs.bits, Self::FORMAT);
+                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+            }
+            /// `self + rhs` wrapped, and whether it overflowed.
+            #[inline(always)]
+            #[must_use]
+            pub fn overflowing_add(self, rhs: Self) -> (Self, bool) {
+                let f = kernel::add_same(self.bits, rhs.bits, Self::FORMAT);
+                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+            }
+
+            /// `self - rhs` in this format, wrapping around on overflow.
+            #[inline(always)]
+            #[must_use]
+            pub fn wrapping_sub(self, rhs: Self) -> Self {
+                Self::resolve(kernel::sub_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Wrap)
+            }
+            /// `self - rhs` in this format, clamped to the range.
+            #[inline(always)]
+            #[must_use]
+            pub fn saturating_sub(self, rhs: Self) -> Self {
+                Self::resolve(kernel::sub_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Saturate)
+            }
+            /// `self - rhs` in this format, or `None` on overflow.
+            #[inline(always)]
+            #[must_use]
+            pub fn checked_sub(self, rhs: Self) -> Option<Self> {
+                let f = kernel::sub_same(self.bits, rhs.bits, Self::FORMAT);
+                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+            }
+            /// `self - rhs` wrapped, and whether it overflowed.
+            #[inline(always)]
+            #[must_use]
+            pub fn overflowing_sub(self, rhs: Self) -> (Self, bool) {
+                let f = kernel::sub_same(self.bits, rhs.bits, Self::FORMAT);
+                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+            }
+
+            /// `-self` in this format, wrapping around on overflow (`-MIN`
+            /// is `MIN` for signed formats; any nonzero unsigned value wraps).
+            #[inline(always)]
+            #[must_use]
+            pub fn wrapping_neg(self) -> Self {
+                Self::resolve(kernel::neg_same(self.bits, Self::FORMAT), Overflow::Wrap)
+            }
+            /// `-self` in this format, clamped to the range.
+            #[inline(always)]
+            #[must_use]
+            pub fn saturating_neg(self) -> Self {
+                Self::resolve(kernel::neg_same(self.bits, Self::FORMAT), Overflow::Saturate)
+            }
+            /// `-self` in this format, or `None` on overflow.
+            #[inline(always)]
+            #[must_use]
+            pub fn checked_neg(self) -> Option<Self> {
+                let f = kernel::neg_same(self.bits, Self::FORMAT);
+                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+            }
+            /// `-self` wrapped, and whether it overflowed.
+            #[inline(always)]
+            #[must_use]
+            pub fn overflowing_neg(self) -> (Self, bool) {
+                let f = kernel::neg_same(self.bits, Self::FORMAT);
+                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+            }
+
+            /// `|self|` in this format, wrapping around on overflow (`|MIN|`
+            /// is `MIN` for signed formats).
+            #[inline(always)]
+            #[must_use]
+            pub fn wrapping_abs(self) -> Self {
+                Self::resolve(kernel::abs_same(self.bits, Self::FORMAT), Overflow::Wrap)
+            }
+            /// `|self|` in this format, clamped to the range.
+            #[inline(always)]
+            #[must_use]
+            pub fn saturating_abs(self) -> Self {
+                Self::resolve(kernel::abs_same(self.bits, Self::FORMAT), Overflow::Saturate)
+            }
+            /// `|self|` in this format, or `None` on overflow.
+            #[inline(always)]
+            #[must_use]
+            pub fn checked_abs(self) -> Option<Self> {
+                let f = kernel::abs_same(self.bits, Self::FORMAT);
+                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+            }
+            /// `|self|` wrapped, and whether it overflowed.
+            #[inline(always)]
+            #[must_use]
+            pub fn overflowing_abs(self) -> (Self, bool) {
+                let f = kernel::abs_same(self.bits, Self::FORMAT);
+                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+            }
+
+            /// `self × rhs` rounded into this format, wrapping around on
+            /// overflow. Works for every format, also where the exact product
+            /// would pass 128 bits.
+            #[inline(always)]
+            #[must_use]
+            pub fn wrapping_mul(self, rhs: Self, rounding: Rounding) -> Self {
+                self.mul_rescale(rhs, rounding, Overflow::Wrap)
+            }
+            /// `self × rhs` rounded into this format, clamped to the range.
+            #[inline(always)]
+            #[must_use]
+            pub fn saturating_mul(self, rhs: Self, rounding: Rounding) -> Self {
+                self.mul_rescale(rhs, rounding, Overflow::Saturate)
+            }
+            /// `self × rhs` rounded into this format, or `None` if the
+            /// rounded product does not fit.
+            #[inline(always)]
+            #[must_use]
+            pub fn checked_mul(self, rhs: Self, rounding: Rounding) -> Option<Self> {
+                self.try_mul_rescale(rhs, rounding).ok()
+            }
+            /// `self × rhs` rounded and wrapped, and whether it overflowed.
+            #[inline(always)]
+            #[must_use]
+            pub fn overflowing_mul(self, rhs: Self, rounding: Rounding) -> (Self, bool) {
+                let f = kernel::mul_rescale::<_, _, <I as $layout<F>>::Storage>(
+                    self.bits,
+                    Self::FORMAT,
+                    rhs.bits,
+                    Self::FORMAT,
+                    Self::FORMAT,
+                    rounding,
+                );
+                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+            }
+        }
+    };
+}
+
+/// A signed fixed-point value of format `Q(I, F)`: one sign bit, `I`
+/// integer bits, `F` fraction bits (typenum unsigned integers). Most code
+/// names it through the alias [`crate::Q`]: `Q<7, 8>` is `Sq<U7, U8>`.
+///
+/// The bits live in the smallest native integer holding `1 + I + F` bits;
+/// the bits above the word length always repeat the sign bit.
+///
+/// ```
+/// use qbound::{Q, Rounding, Overflow};
+/// let x = Q::<0, 15>::from_bits(0x4000);  // 0.5
+/// let y = Q::<0, 15>::from_bits(-0x2000); // -0.25
+/// let p = x * y;                          // exact: Q1.30
+/// assert_eq!(p.to_bits(), -(1 << 27));    // -0.125
+/// let r: Q<0, 15> = p.rescale(Rounding::NearestTiesEven, Overflow::Saturate);
+/// assert_eq!(r.to_bits(), -0x1000);
+/// ```
+pub struct Sq<I: SignedLayout<F>, F: Unsigned> {
+    bits: <I as SignedLayout<F>>::Storage,
+    _frac: PhantomData<F>,
+}
+
+/// An unsigned fixed-point value of format `UQ(I, F)`: `I` integer bits and
+/// `F` fraction bits, no sign bit. Most code names it through the alias
+/// [`crate::UQ`]: `UQ<8, 8>` is `Uq<U8, U8>`.
+///
+/// ```
+/// use qbound::UQ;
+/// let gain = UQ::<1, 7>::from_bits(0xC0); // 1.5
+/// assert_eq!((gain * gain).to_bits(), 0x9000); // 2.25 in UQ2.14
+/// ```
+pub struct Uq<I: UnsignedLayout<F>, F: Unsigned> {
+    bits: <I as UnsignedLayout<F>>::Storage,
+    _frac: PhantomData<F>,
+}
+
+impl<I: SignedLayout<F>, F: Unsigned> Sq<I, F> {
+    const MIN_BITS: <I as SignedLayout<F>>::Storage = <I as SignedLayout<F>>::MIN_BITS;
+
+    /// Whether the value is below zero.
+    ///
+    /// ```
+    /// assert!(qbound::Q::<3, 4>::MIN.is_negative());
+    /// ```
+    #[inline(always)]
+    #[must_use]
+    pub fn is_negative(self) -> bool {
+        self.bits.is_negative()
+    }
+}
+
+impl<I: UnsignedLayout<F>, F: Unsigned> Uq<I, F> {
+    const MIN_BITS: <I as UnsignedLayout<F>>::Storage = <<I as UnsignedLayout<F>>::Storage as Storage>::ZERO;
+}
+
+typed_common!(Sq, SignedLayout, true);
+typed_common!(Uq, UnsignedLayout, false);
+
+/// A typed format that holds every value of `Self`'s format, so
+/// [`Sq::widen`] / [`Uq::widen`] into it is exact. Implemented when the
+/// target has at least as many integer and fraction bits (and is signed if
+/// the source is).
+///
+/// ```
+/// use qbound::Q;
+/// let x = Q::<3, 12>::from_bits(1234);
+/// let y: Q<9, 30> = x.widen();
+/// assert_eq!(y, x);
+/// ```
+#[diagnostic::on_unimplemented(
+    message = "`widen` would lose information here: the target format does not hold every value of the source",
+    label = "not a lossless widening",
+    note = "`widen` needs a target with at least as many integer and fraction bits, and a signed target for a signed source",
+    note = "to narrow, use `rescale` with a rounding mode and an overflow mode"
+)]
+pub trait WidensTo<T: QType>: QType {}
+
+/// Marker: the target has enough integer bits (implemented for `B1` only).
+#[doc(hidden)]
+#[diagnostic::on_unimplemented(
+    message = "`widen` would drop integer bits: the target format has fewer integer bits than the source",
+    label = "not a lossless widening",
+    note = "to narrow, use `rescale` with a rounding mode and an overflow mode"
+)]
+pub trait HoldsIntegerBits {}
+impl HoldsIntegerBits for typenum::B1 {}
+
+/// Marker: the target has enough fraction bits (implemented for `B1` only).
+#[doc(hidden)]
+#[diagnostic::on_unimplemented(
+    message = "`widen` would drop fraction bits: the target format has fewer fraction bits than the source",
+    label = "not a lossless widening",
+    note = "to round away fraction bits, use `rescale` with a rounding mode and an overflow mode"
+)]
+pub trait HoldsFractionBits {}
+impl HoldsFractionBits for typenum::B1 {}
+
+macro_rules! widens {
+    ($src:ident, $sl:ident, $dst:ident, $dl:ident) => {
+        impl<I1, F1, I2, F2> WidensTo<$dst<I2, F2>> for $src<I1, F1>
+        where
+            I1: $sl<F1>,
+            F1: Unsigned,
+            I2: $dl<F2> + typenum::IsGreaterOrEqual<I1>,
+            F2: Unsigned + typenum::IsGreaterOrEqual<F1>,
+            typenum::GrEq<I2, I1>: HoldsIntegerBits,
+            typenum::GrEq<F2, F1>: HoldsFractionBits,
+        {
+        }
+    };
+}
+widens!(Sq, SignedLayout, Sq, SignedLayout);
+widens!(Uq, UnsignedLayout, Uq, UnsignedLayout);
+widens!(Uq, UnsignedLayout, Sq, SignedLayout);
