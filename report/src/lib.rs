@@ -40,6 +40,13 @@ pub mod parse;
 pub mod result;
 pub mod simulate;
 
+// The `qbound` tool's layers: renderers, the CI gate, test vectors and
+// format descriptions (src/bin/qbound.rs is the command line).
+pub mod describe;
+pub mod gate;
+pub mod render;
+pub mod vectors;
+
 pub use analysis::{Analysis, AnalysisOptions, analyze, analyze_with};
 pub use exact::{Interval, parse_decimal};
 pub use model::{Budget, Builder, Datapath, InputKind, ModelError, Node, NodeId, Op, Output, Span};

@@ -1,0 +1,226 @@
+//! Renderers of a [`Report`]: a terminal table, Markdown, JSON and a
+//! self-contained HTML page with SVG plots. Each writes to any
+//! [`std::io::Write`], so a test can render into a `Vec<u8>`.
+//!
+//! ```
+//! use qbound_report::render::{self, Context, Style};
+//! let path = qbound_report::parse("input x : Q0.15 in [-1, 0.5]\nlet y = rescale(x, Q0.7, nearest-even, saturate)\noutput y budget 1 ulp")?;
+//! let report = qbound_report::analyze(&path).report(&path);
+//! let mut out = Vec::new();
+//! render::render(&report, &Context::new("example.q"), Style::Markdown, &mut out)?;
+//! assert!(String::from_utf8(out)?.contains("| y |"));
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
+
+use std::io::{self, Write};
+
+use crate::result::{NodeReport, RangeReport, Report};
+use crate::vectors::ErrorHistogram;
+
+pub mod html;
+pub mod markdown;
+pub mod source;
+pub mod svg;
+pub mod terminal;
+
+/// The caution printed in every report that is read by people.
+pub const SAFETY_CAUTION: &str = "The audit supports but does not replace the verification that \
+safety-related firmware (control loops, protective functions) needs under its applicable safety \
+standard and local practice: review, testing on the target, and the analyses that standard requires.";
+
+/// Which renderer.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Style {
+    /// A table for a terminal (ANSI colour only when [`Context::color`] is set).
+    Terminal,
+    /// GitHub-flavoured Markdown.
+    Markdown,
+    /// The engine's [`Report`] serialised as JSON, unchanged.
+    Json,
+    /// One self-contained HTML file with SVG plots.
+    Html,
+}
+
+impl Style {
+    /// The style for a file name's extension (`.md`, `.json`, `.html`/`.htm`),
+    /// if it names one.
+    ///
+    /// ```
+    /// use qbound_report::render::Style;
+    /// assert_eq!(Style::from_extension("out/audit.html"), Some(Style::Html));
+    /// assert_eq!(Style::from_extension("audit.txt"), None);
+    /// ```
+    #[must_use]
+    pub fn from_extension(file: &str) -> Option<Style> {
+        let ext = std::path::Path::new(file).extension()?.to_str()?;
+        match ext.to_ascii_lowercase().as_str() {
+            "md" | "markdown" => Some(Style::Markdown),
+            "json" => Some(Style::Json),
+            "html" | "htm" => Some(Style::Html),
+            _ => None,
+        }
+    }
+}
+
+/// What a renderer needs beside the report.
+#[derive(Clone, Debug, Default)]
+pub struct Context {
+    /// The audited file's name, shown in titles.
+    pub title: String,
+    /// The audit text, listed in the HTML report.
+    pub source: Option<String>,
+    /// Colour the terminal output with ANSI escapes.
+    pub color: bool,
+    /// Error histograms per output (for the HTML plots), from
+    /// [`crate::vectors::error_histograms`].
+    pub histograms: Vec<ErrorHistogram>,
+}
+
+impl Context {
+    /// A context with a title and nothing else.
+    ///
+    /// ```
+    /// let c = qbound_report::render::Context::new("fir.q");
+    /// assert!(!c.color);
+    /// ```
+    #[must_use]
+    pub fn new(title: &str) -> Context {
+        Context {
+            title: title.to_owned(),
+            ..Context::default()
+        }
+    }
+}
+
+/// Render `report` in `style` to `out`.
+///
+/// # Errors
+/// Whatever writing to `out` returns.
+pub fn render(report: &Report, ctx: &Context, style: Style, out: &mut dyn Write) -> io::Result<()> {
+    match style {
+        Style::Terminal => terminal::render(report, ctx, out),
+        Style::Markdown => markdown::render(report, ctx, out),
+        Style::Json => writeln!(out, "{}", report.to_json()),
+        Style::Html => html::render(report, ctx, out),
+    }
+}
+
+/// A number for people: four significant digits, plain decimal between
+/// 0.001 and 10⁶, scientific outside, `0` for zero.
+///
+/// ```
+/// use qbound_report::render::num;
+/// assert_eq!(num(0.0), "0");
+/// assert_eq!(num(1.5), "1.5");
+/// assert_eq!(num(-0.000030517578125), "-3.052e-5");
+/// assert_eq!(num(12345.678), "12346");
+/// ```
+#[must_use]
+pub fn num(x: f64) -> String {
+    if x == 0.0 {
+        return "0".to_owned();
+    }
+    if !x.is_finite() {
+        return format!("{x}");
+    }
+    let a = x.abs();
+    if (1e-3..1e6).contains(&a) {
+        let digits = (3 - a.log10().floor() as i32).max(0) as usize;
+        let s = format!("{x:.digits$}");
+        if s.contains('.') {
+            s.trim_end_matches('0').trim_end_matches('.').to_owned()
+        } else {
+            s
+        }
+    } else {
+        let s = format!("{x:.3e}");
+        // 3.000e-5 -> 3e-5
+        match s.split_once('e') {
+            Some((m, e)) => {
+                let m = if m.contains('.') {
+                    m.trim_end_matches('0').trim_end_matches('.')
+                } else {
+                    m
+                };
+                format!("{m}e{e}")
+            }
+            None => s,
+        }
+    }
+}
+
+/// `[lo, hi]` with [`num`].
+#[must_use]
+pub fn range_text(r: &RangeReport) -> String {
+    format!("[{}, {}]", num(r.lo.approx), num(r.hi.approx))
+}
+
+/// The largest and smallest values of a format, from its name (`Q1.15`,
+/// `UQ8.8`).
+#[must_use]
+pub fn format_limits(format: &str) -> Option<(f64, f64)> {
+    let f: qbound::Format = format.parse().ok()?;
+    let r = crate::exact::format_range(f);
+    Some((r.lo.to_f64(), r.hi.to_f64()))
+}
+
+/// Headroom of a node in bits: how far the range it takes (before any
+/// overflow mode acts) stays inside its format, `log2(format limit / range
+/// end)` on the tighter side. Negative when the value can overflow;
+/// `None` when the value is always 0.
+#[must_use]
+pub fn headroom_bits(n: &NodeReport) -> Option<f64> {
+    let (fmin, fmax) = format_limits(&n.format)?;
+    let r = n
+        .overflow
+        .unclamped_range
+        .as_ref()
+        .unwrap_or(&n.actual_range);
+    let (lo, hi) = (r.lo.approx, r.hi.approx);
+    if hi <= 0.0 && lo >= 0.0 {
+        return None;
+    }
+    let mut h = f64::INFINITY;
+    if hi > 0.0 {
+        h = h.min((fmax.max(f64::MIN_POSITIVE) / hi).log2());
+    }
+    if lo < 0.0 {
+        h = if fmin < 0.0 {
+            h.min((fmin / lo).log2())
+        } else {
+            f64::NEG_INFINITY
+        };
+    }
+    Some(h)
+}
+
+/// Headroom as text: `2.0`, `-0.6`, `-` for a value that is always 0.
+#[must_use]
+pub fn headroom_text(n: &NodeReport) -> String {
+    match headroom_bits(n) {
+        Some(h) if h.is_finite() => format!("{:.1}", (h * 10.0).floor() / 10.0),
+        Some(_) => "-inf".to_owned(),
+        None => "-".to_owned(),
+    }
+}
+
+/// The overflow verdict in a few words: `no`, `exact`, `SATURATES`,
+/// `WRAPS`, `PANICS`.
+#[must_use]
+pub fn overflow_verdict(n: &NodeReport) -> &'static str {
+    let o = &n.overflow;
+    match (o.can_overflow, o.mode.as_deref()) {
+        (false, None) => "exact",
+        (false, Some(_)) => "no",
+        (true, Some("wrap")) => "WRAPS",
+        (true, Some("panic")) => "PANICS",
+        (true, Some(_)) => "SATURATES",
+        (true, None) => "OVERFLOWS",
+    }
+}
+
+/// `line 7` or an empty string.
+#[must_use]
+pub fn line_of(span: Option<crate::model::Span>) -> String {
+    span.map(|s| format!("line {}", s.line)).unwrap_or_default()
+}

@@ -1,0 +1,405 @@
+//! Hand-made SVG plots for the HTML report. Each function returns one
+//! `<svg>` element as text: well-formed XML (every text escaped), sized by
+//! a `viewBox` so it scales with the page.
+
+use std::fmt::Write as _;
+
+use super::{format_limits, headroom_text, num, overflow_verdict};
+use crate::result::{NodeReport, OutputReport};
+use crate::vectors::ErrorHistogram;
+
+/// Escape text for XML content and attribute values.
+///
+/// ```
+/// assert_eq!(qbound_report::render::svg::escape("a<b & \"c\""), "a&lt;b &amp; &quot;c&quot;");
+/// ```
+#[must_use]
+pub fn escape(s: &str) -> String {
+    let mut o = String::with_capacity(s.len());
+    for c in s.chars() {
+        match c {
+            '<' => o.push_str("&lt;"),
+            '>' => o.push_str("&gt;"),
+            '&' => o.push_str("&amp;"),
+            '"' => o.push_str("&quot;"),
+            '\'' => o.push_str("&apos;"),
+            c => o.push(c),
+        }
+    }
+    o
+}
+
+const BAR: &str = "#4c78a8";
+const BOUND: &str = "#c0392b";
+const MODEL: &str = "#e67e22";
+const GRID: &str = "#d0d4da";
+const TEXT: &str = "#2b2f36";
+
+fn open(w: f64, h: f64, title: &str) -> String {
+    format!(
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 {w} {h}\" width=\"{w}\" height=\"{h}\" role=\"img\" font-family=\"system-ui, sans-serif\" font-size=\"11\"><title>{}</title>",
+        escape(title)
+    )
+}
+
+fn text(s: &mut String, x: f64, y: f64, anchor: &str, body: &str) {
+    let _ = write!(
+        s,
+        "<text x=\"{x:.1}\" y=\"{y:.1}\" text-anchor=\"{anchor}\" fill=\"{TEXT}\">{}</text>",
+        escape(body)
+    );
+}
+
+/// The error histogram of one output: bars of the simulated errors, the
+/// sound bound as two red lines, the noise model's prediction (a normal
+/// density with the predicted mean and standard deviation, scaled to the
+/// sample count) as an orange curve, and the predicted mean.
+#[must_use]
+pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
+    let (w, ht) = (660.0, 270.0);
+    let (ml, mr, mt, mb) = (56.0, 16.0, 34.0, 58.0);
+    let pw = w - ml - mr;
+    let ph = ht - mt - mb;
+    let mut s = open(w, ht, &format!("error histogram of {}", o.name));
+    let (blo, bhi) = (o.error.lo.approx, o.error.hi.approx);
+    let span = (h.hi - h.lo).abs();
+    let pad = if span > 0.0 {
+        span * 0.08
+    } else {
+        blo.abs().max(1e-12) * 0.5
+    };
+    let (x0, x1) = (h.lo.min(blo) - pad, h.hi.max(bhi) + pad);
+    let sx = |x: f64| ml + (x - x0) / (x1 - x0) * pw;
+    let nb = h.counts.len().max(1);
+    let bw = if span > 0.0 { span / nb as f64 } else { 0.0 };
+    // The model's density at the bin width, in counts.
+    let (mu, sd) = (o.stats.mean, o.stats.std_dev);
+    let model_peak = if sd > 0.0 && bw > 0.0 {
+        h.samples as f64 * bw / (sd * (2.0 * std::f64::consts::PI).sqrt())
+    } else {
+        0.0
+    };
+    let ymax = (h.counts.iter().copied().max().unwrap_or(0) as f64)
+        .max(model_peak.min(h.samples as f64))
+        .max(1.0)
+        * 1.1;
+    let sy = |c: f64| mt + ph - c / ymax * ph;
+    // Frame and grid.
+    let _ = write!(
+        s,
+        "<rect x=\"{ml}\" y=\"{mt}\" width=\"{pw}\" height=\"{ph}\" fill=\"#fbfbfc\" stroke=\"{GRID}\"/>"
+    );
+    for k in 0..=4 {
+        let x = x0 + (x1 - x0) * f64::from(k) / 4.0;
+        let px = sx(x);
+        let _ = write!(
+            s,
+            "<line x1=\"{px:.1}\" y1=\"{mt}\" x2=\"{px:.1}\" y2=\"{:.1}\" stroke=\"{GRID}\" stroke-dasharray=\"2 3\"/>",
+            mt + ph
+        );
+        text(&mut s, px, mt + ph + 14.0, "middle", &num(x));
+    }
+    text(
+        &mut s,
+        ml - 4.0,
+        mt + 4.0,
+        "end",
+        &format!("{}", ymax.round()),
+    );
+    text(&mut s, ml - 4.0, mt + ph, "end", "0");
+    // Bars.
+    if span > 0.0 {
+        for (i, &c) in h.counts.iter().enumerate() {
+            if c == 0 {
+                continue;
+            }
+            let a = sx(h.lo + bw * i as f64);
+            let b = sx(h.lo + bw * (i + 1) as f64);
+            let y = sy(c as f64);
+            let _ = write!(
+                s,
+                "<rect x=\"{a:.2}\" y=\"{y:.2}\" width=\"{:.2}\" height=\"{:.2}\" fill=\"{BAR}\"/>",
+                (b - a).max(0.6),
+                mt + ph - y
+            );
+        }
+    } else if h.samples > 0 {
+        let px = sx(h.lo);
+        let _ = write!(
+            s,
+            "<rect x=\"{:.2}\" y=\"{:.2}\" width=\"4\" height=\"{:.2}\" fill=\"{BAR}\"/>",
+            px - 2.0,
+            sy(h.samples as f64),
+            ph - (sy(h.samples as f64) - mt)
+        );
+    }
+    // The model's curve.
+    if model_peak > 0.0 {
+        let mut d = String::new();
+        for k in 0..=160 {
+            let x = x0 + (x1 - x0) * f64::from(k) / 160.0;
+            let z = (x - mu) / sd;
+            let c = model_peak * (-0.5 * z * z).exp();
+            let _ = write!(
+                d,
+                "{}{:.1} {:.1}",
+                if k == 0 { "M" } else { " L" },
+                sx(x),
+                sy(c.min(ymax))
+            );
+        }
+        let _ = write!(
+            s,
+            "<path d=\"{d}\" fill=\"none\" stroke=\"{MODEL}\" stroke-width=\"2\"/>"
+        );
+        let pm = sx(mu);
+        let _ = write!(
+            s,
+            "<line x1=\"{pm:.1}\" y1=\"{mt}\" x2=\"{pm:.1}\" y2=\"{:.1}\" stroke=\"{MODEL}\" stroke-dasharray=\"5 3\"/>",
+            mt + ph
+        );
+    }
+    // The sound bound.
+    for (x, label) in [(blo, "bound lo"), (bhi, "bound hi")] {
+        let px = sx(x);
+        let _ = write!(
+            s,
+            "<line x1=\"{px:.1}\" y1=\"{:.1}\" x2=\"{px:.1}\" y2=\"{:.1}\" stroke=\"{BOUND}\" stroke-width=\"2\"><title>{}</title></line>",
+            mt - 6.0,
+            mt + ph,
+            escape(&format!("{label}: {}", num(x)))
+        );
+    }
+    // Title and legend.
+    text(
+        &mut s,
+        ml,
+        16.0,
+        "start",
+        &format!(
+            "error of {} over {} random vectors (actual - exact)",
+            o.name, h.samples
+        ),
+    );
+    let ly = ht - 16.0;
+    let _ = write!(
+        s,
+        "<rect x=\"{ml}\" y=\"{:.1}\" width=\"12\" height=\"9\" fill=\"{BAR}\"/>",
+        ly - 8.0
+    );
+    text(&mut s, ml + 16.0, ly, "start", "simulated");
+    let _ = write!(
+        s,
+        "<line x1=\"{:.1}\" y1=\"{:.1}\" x2=\"{:.1}\" y2=\"{:.1}\" stroke=\"{BOUND}\" stroke-width=\"2\"/>",
+        ml + 90.0,
+        ly - 4.0,
+        ml + 104.0,
+        ly - 4.0
+    );
+    text(
+        &mut s,
+        ml + 108.0,
+        ly,
+        "start",
+        &format!("sound bound [{}, {}]", num(blo), num(bhi)),
+    );
+    let _ = write!(
+        s,
+        "<line x1=\"{:.1}\" y1=\"{:.1}\" x2=\"{:.1}\" y2=\"{:.1}\" stroke=\"{MODEL}\" stroke-width=\"2\"/>",
+        ml + 320.0,
+        ly - 4.0,
+        ml + 334.0,
+        ly - 4.0
+    );
+    text(
+        &mut s,
+        ml + 338.0,
+        ly,
+        "start",
+        &format!("noise model: normal, mean {}, std dev {}", num(mu), num(sd)),
+    );
+    text(&mut s, ml + pw / 2.0, mt + ph + 30.0, "middle", "error");
+    s.push_str("</svg>");
+    s
+}
+
+/// Where an output's error comes from: one horizontal bar per source,
+/// its share of the worst-case bound (solid) and of the predicted
+/// variance (outline).
+#[must_use]
+pub fn contributions(o: &OutputReport) -> String {
+    let rows = o.contributions.len().max(1);
+    let (w, row) = (660.0, 24.0);
+    let (label_w, mt) = (300.0, 30.0);
+    let ht = mt + row * rows as f64 + 34.0;
+    let pw = w - label_w - 70.0;
+    let mut s = open(w, ht, &format!("error sources of {}", o.name));
+    text(
+        &mut s,
+        8.0,
+        16.0,
+        "start",
+        &format!("where the error of {} comes from", o.name),
+    );
+    if o.contributions.is_empty() {
+        text(
+            &mut s,
+            8.0,
+            mt + 14.0,
+            "start",
+            "no error source reaches this output: it is exact",
+        );
+    }
+    for (i, c) in o.contributions.iter().enumerate() {
+        let y = mt + row * i as f64;
+        let mut label = c.label.clone();
+        if label.chars().count() > 46 {
+            label = label.chars().take(45).collect::<String>() + "…";
+        }
+        let _ = write!(
+            s,
+            "<text x=\"{:.1}\" y=\"{:.1}\" text-anchor=\"end\" fill=\"{TEXT}\"><title>{}</title>{}</text>",
+            label_w - 8.0,
+            y + 14.0,
+            escape(&c.label),
+            escape(&label)
+        );
+        let bw = (c.share_of_bound * pw).max(0.0);
+        let vw = (c.share_of_variance * pw).max(0.0);
+        let _ = write!(
+            s,
+            "<rect x=\"{label_w}\" y=\"{:.1}\" width=\"{bw:.1}\" height=\"9\" fill=\"{BAR}\"/>",
+            y + 3.0
+        );
+        let _ = write!(
+            s,
+            "<rect x=\"{label_w}\" y=\"{:.1}\" width=\"{vw:.1}\" height=\"7\" fill=\"none\" stroke=\"{MODEL}\" stroke-width=\"1.5\"/>",
+            y + 13.0
+        );
+        text(
+            &mut s,
+            label_w + bw.max(vw) + 6.0,
+            y + 14.0,
+            "start",
+            &format!(
+                "{:.0}%  ±{}",
+                c.share_of_bound * 100.0,
+                num(c.max_abs.approx)
+            ),
+        );
+    }
+    let ly = ht - 10.0;
+    let _ = write!(
+        s,
+        "<rect x=\"{label_w}\" y=\"{:.1}\" width=\"12\" height=\"9\" fill=\"{BAR}\"/>",
+        ly - 8.0
+    );
+    text(
+        &mut s,
+        label_w + 16.0,
+        ly,
+        "start",
+        "share of the worst-case bound",
+    );
+    let _ = write!(
+        s,
+        "<rect x=\"{:.1}\" y=\"{:.1}\" width=\"12\" height=\"7\" fill=\"none\" stroke=\"{MODEL}\" stroke-width=\"1.5\"/>",
+        label_w + 190.0,
+        ly - 7.0
+    );
+    text(
+        &mut s,
+        label_w + 206.0,
+        ly,
+        "start",
+        "share of the variance",
+    );
+    s.push_str("</svg>");
+    s
+}
+
+/// Each node's range against what its format holds: the format's range is
+/// the grey track (each row at its own scale, zero marked), the values the
+/// node takes are the bar on it (red where it passes the format).
+#[must_use]
+pub fn ranges(nodes: &[NodeReport]) -> String {
+    let rows = nodes.len().max(1);
+    let (w, row) = (660.0, 20.0);
+    let (label_w, mt) = (150.0, 30.0);
+    let track_w = w - label_w - 170.0;
+    let ht = mt + row * rows as f64 + 10.0;
+    let mut s = open(w, ht, "node ranges against their formats");
+    text(
+        &mut s,
+        8.0,
+        16.0,
+        "start",
+        "each node's range (bar) inside its format's range (track); right: format, headroom bits",
+    );
+    for (i, n) in nodes.iter().enumerate() {
+        let y = mt + row * i as f64;
+        let Some((fmin, fmax)) = format_limits(&n.format) else {
+            continue;
+        };
+        let r = n
+            .overflow
+            .unclamped_range
+            .as_ref()
+            .unwrap_or(&n.actual_range);
+        let (lo, hi) = (r.lo.approx, r.hi.approx);
+        // Scale: the union of the format's range and the value range.
+        let (a, b) = (fmin.min(lo), fmax.max(hi));
+        let sx = |x: f64| label_w + (x - a) / (b - a).max(f64::MIN_POSITIVE) * track_w;
+        let mut label = n.label.clone();
+        if label.chars().count() > 22 {
+            label = label.chars().take(21).collect::<String>() + "…";
+        }
+        text(&mut s, label_w - 8.0, y + 13.0, "end", &label);
+        let _ = write!(
+            s,
+            "<rect x=\"{:.1}\" y=\"{:.1}\" width=\"{:.1}\" height=\"12\" fill=\"#e4e7eb\"/>",
+            sx(fmin),
+            y + 3.0,
+            sx(fmax) - sx(fmin)
+        );
+        if a < 0.0 && b > 0.0 {
+            let z = sx(0.0);
+            let _ = write!(
+                s,
+                "<line x1=\"{z:.1}\" y1=\"{:.1}\" x2=\"{z:.1}\" y2=\"{:.1}\" stroke=\"#8a919c\"/>",
+                y + 1.0,
+                y + 17.0
+            );
+        }
+        let over = matches!(
+            overflow_verdict(n),
+            "WRAPS" | "PANICS" | "SATURATES" | "OVERFLOWS"
+        );
+        let color = if over { BOUND } else { BAR };
+        let _ = write!(
+            s,
+            "<rect x=\"{:.1}\" y=\"{:.1}\" width=\"{:.1}\" height=\"6\" fill=\"{color}\"><title>{}</title></rect>",
+            sx(lo),
+            y + 6.0,
+            (sx(hi) - sx(lo)).max(1.5),
+            escape(&format!(
+                "{}: [{}, {}] in {} [{}, {}]",
+                n.label,
+                num(lo),
+                num(hi),
+                n.format,
+                num(fmin),
+                num(fmax)
+            ))
+        );
+        text(
+            &mut s,
+            label_w + track_w + 10.0,
+            y + 13.0,
+            "start",
+            &format!("{}  {}", n.format, headroom_text(n)),
+        );
+    }
+    s.push_str("</svg>");
+    s
+}
