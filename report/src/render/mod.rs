@@ -117,6 +117,17 @@ pub fn render(report: &Report, ctx: &Context, style: Style, out: &mut dyn Write)
 /// ```
 #[must_use]
 pub fn num(x: f64) -> String {
+    num_sig(x, 4)
+}
+
+/// A number with `sig` significant digits (at least 1), as [`num`].
+///
+/// ```
+/// assert_eq!(qbound_report::render::num_sig(0.999969482421875, 6), "0.999969");
+/// ```
+#[must_use]
+pub fn num_sig(x: f64, sig: u32) -> String {
+    let sig = i32::try_from(sig.max(1)).unwrap_or(17);
     if x == 0.0 {
         return "0".to_owned();
     }
@@ -125,7 +136,7 @@ pub fn num(x: f64) -> String {
     }
     let a = x.abs();
     if (1e-3..1e6).contains(&a) {
-        let digits = (3 - a.log10().floor() as i32).max(0) as usize;
+        let digits = (sig - 1 - a.log10().floor() as i32).max(0) as usize;
         let s = format!("{x:.digits$}");
         if s.contains('.') {
             s.trim_end_matches('0').trim_end_matches('.').to_owned()
@@ -133,7 +144,8 @@ pub fn num(x: f64) -> String {
             s
         }
     } else {
-        let s = format!("{x:.3e}");
+        let prec = (sig - 1) as usize;
+        let s = format!("{x:.prec$e}");
         // 3.000e-5 -> 3e-5
         match s.split_once('e') {
             Some((m, e)) => {
@@ -149,10 +161,11 @@ pub fn num(x: f64) -> String {
     }
 }
 
-/// `[lo, hi]` with [`num`].
+/// `[lo, hi]` with six significant digits (so `0.999969` does not read
+/// as `1`).
 #[must_use]
 pub fn range_text(r: &RangeReport) -> String {
-    format!("[{}, {}]", num(r.lo.approx), num(r.hi.approx))
+    format!("[{}, {}]", num_sig(r.lo.approx, 6), num_sig(r.hi.approx, 6))
 }
 
 /// The largest and smallest values of a format, from its name (`Q1.15`,

@@ -43,24 +43,28 @@ pub fn parse_error(
     } else {
         ("", "", "")
     };
-    let headline = if err.found.is_empty() {
+    let line = err.span.line;
+    let src = text
+        .lines()
+        .nth(line.saturating_sub(1))
+        .map(|s| s.replace('\t', " "));
+    let (col, found) = locate(err, src.as_deref());
+    let headline = if found.is_empty() {
         err.expected.clone()
     } else {
-        format!("expected {}, found {}", err.expected, shown(&err.found))
+        format!("expected {}, found {}", err.expected, shown(&found))
     };
     writeln!(out, "{red}error{reset}{bold}: {headline}{reset}")?;
-    let (line, col) = (err.span.line, err.span.column);
     writeln!(out, "  --> {file}:{line}:{col}")?;
-    let Some(src) = text.lines().nth(line.saturating_sub(1)) else {
+    let Some(src) = src else {
         return Ok(());
     };
-    let src = src.replace('\t', " ");
     let gutter = line.to_string().len();
     let pad = " ".repeat(gutter);
     writeln!(out, "{pad} |")?;
     writeln!(out, "{line} | {src}")?;
-    let width = caret_width(&err.found, &src, col);
-    let label = if err.found.is_empty() {
+    let width = caret_width(&found, &src, col);
+    let label = if found.is_empty() {
         "here".to_owned()
     } else {
         format!("expected {}", err.expected)
@@ -72,6 +76,33 @@ pub fn parse_error(
         "^".repeat(width)
     )?;
     Ok(())
+}
+
+/// The column and found text to show. When the position points at
+/// blank space with nothing found there (`` ` ` ``), move to the word that
+/// follows and show it: the person wants to see the offending word.
+fn locate(err: &ParseError, src: Option<&str>) -> (usize, String) {
+    let col = err.span.column;
+    let blank = err.found.trim_matches('`').trim().is_empty() && err.found != "end of line";
+    match src {
+        Some(src) if blank && !err.found.is_empty() => {
+            let chars: Vec<char> = src.chars().collect();
+            let mut i = col.saturating_sub(1);
+            while i < chars.len() && chars[i].is_whitespace() {
+                i += 1;
+            }
+            let word: String = chars[i.min(chars.len())..]
+                .iter()
+                .take_while(|c| !c.is_whitespace() && !",()[]".contains(**c))
+                .collect();
+            if word.is_empty() {
+                (col, err.found.clone())
+            } else {
+                (i + 1, format!("`{word}`"))
+            }
+        }
+        _ => (col, err.found.clone()),
+    }
 }
 
 /// The found text quoted, unless it is a description (`end of line`).

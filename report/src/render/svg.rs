@@ -4,7 +4,7 @@
 
 use std::fmt::Write as _;
 
-use super::{format_limits, headroom_text, num, overflow_verdict};
+use super::{format_limits, headroom_text, num};
 use crate::result::{NodeReport, OutputReport};
 use crate::vectors::ErrorHistogram;
 
@@ -56,8 +56,8 @@ fn text(s: &mut String, x: f64, y: f64, anchor: &str, body: &str) {
 /// sample count) as an orange curve, and the predicted mean.
 #[must_use]
 pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
-    let (w, ht) = (660.0, 270.0);
-    let (ml, mr, mt, mb) = (56.0, 16.0, 34.0, 58.0);
+    let (w, ht) = (660.0, 290.0);
+    let (ml, mr, mt, mb) = (56.0, 16.0, 34.0, 70.0);
     let pw = w - ml - mr;
     let ph = ht - mt - mb;
     let mut s = open(w, ht, &format!("error histogram of {}", o.name));
@@ -79,18 +79,26 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
     } else {
         0.0
     };
-    let ymax = (h.counts.iter().copied().max().unwrap_or(0) as f64)
-        .max(model_peak.min(h.samples as f64))
-        .max(1.0)
-        * 1.1;
-    let sy = |c: f64| mt + ph - c / ymax * ph;
+    let cmax = h.counts.iter().copied().max().unwrap_or(0) as f64;
+    // A peaked distribution with tails (saturation, a few large errors)
+    // would show as one spike: count on a log scale then.
+    let nonzero = h.counts.iter().filter(|&&c| c > 0).count();
+    let log = cmax > 0.5 * h.samples as f64 && nonzero >= 3;
+    let ymax = cmax.max(model_peak.min(h.samples as f64)).max(1.0) * 1.1;
+    let scale = |c: f64| {
+        if log {
+            (1.0 + c).log10() / (1.0 + ymax).log10()
+        } else {
+            c / ymax
+        }
+    };
+    let sy = |c: f64| mt + ph - scale(c) * ph;
     // Frame and grid.
     let _ = write!(
         s,
         "<rect x=\"{ml}\" y=\"{mt}\" width=\"{pw}\" height=\"{ph}\" fill=\"#fbfbfc\" stroke=\"{GRID}\"/>"
     );
-    for k in 0..=4 {
-        let x = x0 + (x1 - x0) * f64::from(k) / 4.0;
+    for x in nice_ticks(x0, x1) {
         let px = sx(x);
         let _ = write!(
             s,
@@ -107,6 +115,20 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
         &format!("{}", ymax.round()),
     );
     text(&mut s, ml - 4.0, mt + ph, "end", "0");
+    if log {
+        for c in [10.0, 100.0, 1000.0, 10000.0, 100_000.0] {
+            if c < ymax * 0.7 {
+                let y = sy(c);
+                let _ = write!(
+                    s,
+                    "<line x1=\"{ml}\" y1=\"{y:.1}\" x2=\"{:.1}\" y2=\"{y:.1}\" stroke=\"{GRID}\" stroke-dasharray=\"2 3\"/>",
+                    ml + pw
+                );
+                text(&mut s, ml - 4.0, y + 4.0, "end", &format!("{c}"));
+            }
+        }
+        text(&mut s, ml - 4.0, mt - 8.0, "end", "count (log)");
+    }
     // Bars.
     if span > 0.0 {
         for (i, &c) in h.counts.iter().enumerate() {
@@ -176,12 +198,9 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
         ml,
         16.0,
         "start",
-        &format!(
-            "error of {} over {} random vectors (actual - exact)",
-            o.name, h.samples
-        ),
+        &format!("error of {} over {} random vectors", o.name, h.samples),
     );
-    let ly = ht - 16.0;
+    let ly = ht - 22.0;
     let _ = write!(
         s,
         "<rect x=\"{ml}\" y=\"{:.1}\" width=\"12\" height=\"9\" fill=\"{BAR}\"/>",
@@ -201,24 +220,34 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
         ml + 108.0,
         ly,
         "start",
-        &format!("sound bound [{}, {}]", num(blo), num(bhi)),
+        &format!("sound worst-case bound [{}, {}]", num(blo), num(bhi)),
     );
+    let ly = ly + 15.0;
     let _ = write!(
         s,
-        "<line x1=\"{:.1}\" y1=\"{:.1}\" x2=\"{:.1}\" y2=\"{:.1}\" stroke=\"{MODEL}\" stroke-width=\"2\"/>",
-        ml + 320.0,
+        "<line x1=\"{ml}\" y1=\"{:.1}\" x2=\"{:.1}\" y2=\"{:.1}\" stroke=\"{MODEL}\" stroke-width=\"2\"/>",
         ly - 4.0,
-        ml + 334.0,
+        ml + 12.0,
         ly - 4.0
     );
     text(
         &mut s,
-        ml + 338.0,
+        ml + 16.0,
         ly,
         "start",
-        &format!("noise model: normal, mean {}, std dev {}", num(mu), num(sd)),
+        &format!(
+            "noise model (normal with the predicted mean {} and std dev {}; dashed: mean)",
+            num(mu),
+            num(sd)
+        ),
     );
-    text(&mut s, ml + pw / 2.0, mt + ph + 30.0, "middle", "error");
+    text(
+        &mut s,
+        ml + pw - 4.0,
+        mt + ph + 28.0,
+        "end",
+        "error (actual - exact)",
+    );
     s.push_str("</svg>");
     s
 }
@@ -232,7 +261,7 @@ pub fn contributions(o: &OutputReport) -> String {
     let (w, row) = (660.0, 24.0);
     let (label_w, mt) = (300.0, 30.0);
     let ht = mt + row * rows as f64 + 34.0;
-    let pw = w - label_w - 70.0;
+    let pw = w - label_w - 120.0;
     let mut s = open(w, ht, &format!("error sources of {}", o.name));
     text(
         &mut s,
@@ -371,27 +400,36 @@ pub fn ranges(nodes: &[NodeReport]) -> String {
                 y + 17.0
             );
         }
-        let over = matches!(
-            overflow_verdict(n),
-            "WRAPS" | "PANICS" | "SATURATES" | "OVERFLOWS"
-        );
-        let color = if over { BOUND } else { BAR };
-        let _ = write!(
-            s,
-            "<rect x=\"{:.1}\" y=\"{:.1}\" width=\"{:.1}\" height=\"6\" fill=\"{color}\"><title>{}</title></rect>",
-            sx(lo),
-            y + 6.0,
-            (sx(hi) - sx(lo)).max(1.5),
-            escape(&format!(
-                "{}: [{}, {}] in {} [{}, {}]",
-                n.label,
-                num(lo),
-                num(hi),
-                n.format,
-                num(fmin),
-                num(fmax)
-            ))
-        );
+        let tip = escape(&format!(
+            "{}: [{}, {}] in {} [{}, {}]",
+            n.label,
+            num(lo),
+            num(hi),
+            n.format,
+            num(fmin),
+            num(fmax)
+        ));
+        // The part the format holds in blue, what passes it in red.
+        let inside = (lo.max(fmin), hi.min(fmax));
+        let mut pieces = vec![(inside.0, inside.1, BAR)];
+        if lo < fmin {
+            pieces.push((lo, fmin, BOUND));
+        }
+        if hi > fmax {
+            pieces.push((fmax, hi, BOUND));
+        }
+        for (a, b, color) in pieces {
+            if b < a {
+                continue;
+            }
+            let _ = write!(
+                s,
+                "<rect x=\"{:.1}\" y=\"{:.1}\" width=\"{:.1}\" height=\"6\" fill=\"{color}\"><title>{tip}</title></rect>",
+                sx(a),
+                y + 6.0,
+                (sx(b) - sx(a)).max(1.5),
+            );
+        }
         text(
             &mut s,
             label_w + track_w + 10.0,
@@ -402,4 +440,27 @@ pub fn ranges(nodes: &[NodeReport]) -> String {
     }
     s.push_str("</svg>");
     s
+}
+
+/// Round tick positions (steps of 1, 2 or 5 times a power of ten) inside
+/// `[a, b]`, zero included when it lies inside.
+fn nice_ticks(a: f64, b: f64) -> Vec<f64> {
+    let span = b - a;
+    if span.is_nan() || span <= 0.0 || span.is_infinite() {
+        return vec![a];
+    }
+    let raw = span / 5.0;
+    let p = 10f64.powf(raw.log10().floor());
+    let step = [1.0, 2.0, 5.0, 10.0]
+        .iter()
+        .map(|m| m * p)
+        .find(|s| span / s <= 6.0)
+        .unwrap_or(10.0 * p);
+    let mut t = (a / step).ceil() * step;
+    let mut v = Vec::new();
+    while t <= b + step * 1e-9 && v.len() < 12 {
+        v.push(if t.abs() < step * 1e-9 { 0.0 } else { t });
+        t += step;
+    }
+    v
 }
