@@ -21,7 +21,8 @@ h3{font-size:15px;margin:22px 0 8px}
 table{border-collapse:collapse;font-size:13px;width:100%}
 th,td{border-bottom:1px solid #e4e7eb;padding:4px 8px;text-align:left;vertical-align:top}
 th{background:#f4f5f7} td.n{text-align:right;font-variant-numeric:tabular-nums}
-.plots{display:flex;flex-wrap:wrap;gap:12px}
+.plots{display:flex;flex-wrap:wrap;gap:12px;align-items:flex-start}
+.plots svg{flex:1 1 520px;width:100%;height:auto}
 svg{max-width:100%;height:auto}
 pre{background:#f4f5f7;padding:10px;overflow-x:auto;font-size:12px;line-height:1.45}
 pre .ln{color:#8a919c;user-select:none}

@@ -5,7 +5,7 @@
 use std::fmt::Write as _;
 
 use super::{format_limits, headroom_text, num};
-use crate::result::{NodeReport, OutputReport};
+use crate::result::{NodeReport, OutputReport, SourceKind};
 use crate::vectors::ErrorHistogram;
 
 /// Escape text for XML content and attribute values.
@@ -56,8 +56,8 @@ fn text(s: &mut String, x: f64, y: f64, anchor: &str, body: &str) {
 /// sample count) as an orange curve, and the predicted mean.
 #[must_use]
 pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
-    let (w, ht) = (660.0, 290.0);
-    let (ml, mr, mt, mb) = (56.0, 16.0, 34.0, 70.0);
+    let (w, ht) = (660.0, 304.0);
+    let (ml, mr, mt, mb) = (56.0, 16.0, 34.0, 84.0);
     let pw = w - ml - mr;
     let ph = ht - mt - mb;
     let mut s = open(w, ht, &format!("error histogram of {}", o.name));
@@ -72,18 +72,26 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
     let sx = |x: f64| ml + (x - x0) / (x1 - x0) * pw;
     let nb = h.counts.len().max(1);
     let bw = if span > 0.0 { span / nb as f64 } else { 0.0 };
-    // The model's density at the bin width, in counts.
+    // The model's prediction, in counts per bin.
     let (mu, sd) = (o.stats.mean, o.stats.std_dev);
-    let model_peak = if sd > 0.0 && bw > 0.0 {
-        h.samples as f64 * bw / (sd * (2.0 * std::f64::consts::PI).sqrt())
-    } else {
-        0.0
+    let model: Vec<(f64, f64)> = match predicted_density(o) {
+        Some((start, dx, mass)) if bw > 0.0 => {
+            let per = h.samples as f64 * bw / dx;
+            mass.iter()
+                .enumerate()
+                .map(|(k, m)| (start + (k as f64 + 0.5) * dx, m * per))
+                .collect()
+        }
+        _ => Vec::new(),
     };
+    let model_peak = model.iter().fold(0.0f64, |a, p| a.max(p.1));
     let cmax = h.counts.iter().copied().max().unwrap_or(0) as f64;
     // A peaked distribution with tails (saturation, a few large errors)
     // would show as one spike: count on a log scale then.
-    let nonzero = h.counts.iter().filter(|&&c| c > 0).count();
-    let log = cmax > 0.5 * h.samples as f64 && nonzero >= 3;
+    let mut nonzero: Vec<u64> = h.counts.iter().copied().filter(|&c| c > 0).collect();
+    nonzero.sort_unstable();
+    let median = nonzero.get(nonzero.len() / 2).copied().unwrap_or(0) as f64;
+    let log = nonzero.len() >= 3 && cmax > 20.0 * median;
     let ymax = cmax.max(model_peak.min(h.samples as f64)).max(1.0) * 1.1;
     let scale = |c: f64| {
         if log {
@@ -107,17 +115,19 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
         );
         text(&mut s, px, mt + ph + 14.0, "middle", &num(x));
     }
-    text(
-        &mut s,
-        ml - 4.0,
-        mt + 4.0,
-        "end",
-        &format!("{}", ymax.round()),
-    );
+    if cmax > 0.0 {
+        let y = sy(cmax);
+        let _ = write!(
+            s,
+            "<line x1=\"{ml}\" y1=\"{y:.1}\" x2=\"{:.1}\" y2=\"{y:.1}\" stroke=\"{GRID}\" stroke-dasharray=\"2 3\"/>",
+            ml + pw
+        );
+        text(&mut s, ml - 4.0, y + 4.0, "end", &format!("{cmax}"));
+    }
     text(&mut s, ml - 4.0, mt + ph, "end", "0");
     if log {
         for c in [10.0, 100.0, 1000.0, 10000.0, 100_000.0] {
-            if c < ymax * 0.7 {
+            if c < cmax * 0.5 {
                 let y = sy(c);
                 let _ = write!(
                     s,
@@ -127,7 +137,6 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
                 text(&mut s, ml - 4.0, y + 4.0, "end", &format!("{c}"));
             }
         }
-        text(&mut s, ml - 4.0, mt - 8.0, "end", "count (log)");
     }
     // Bars.
     if span > 0.0 {
@@ -155,21 +164,18 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
             ph - (sy(h.samples as f64) - mt)
         );
     }
-    // The model's curve.
+    // The model's curve: zero outside its support.
     if model_peak > 0.0 {
         let mut d = String::new();
-        for k in 0..=160 {
-            let x = x0 + (x1 - x0) * f64::from(k) / 160.0;
-            let z = (x - mu) / sd;
-            let c = model_peak * (-0.5 * z * z).exp();
-            let _ = write!(
-                d,
-                "{}{:.1} {:.1}",
-                if k == 0 { "M" } else { " L" },
-                sx(x),
-                sy(c.min(ymax))
-            );
+        let first = model.first().map_or(x0, |p| p.0);
+        let last = model.last().map_or(x1, |p| p.0);
+        let _ = write!(d, "M{:.1} {:.1}", sx(x0.min(first)), sy(0.0));
+        let _ = write!(d, " L{:.1} {:.1}", sx(first), sy(0.0));
+        for &(x, c) in &model {
+            let _ = write!(d, " L{:.1} {:.1}", sx(x), sy(c.min(ymax)));
         }
+        let _ = write!(d, " L{:.1} {:.1}", sx(last), sy(0.0));
+        let _ = write!(d, " L{:.1} {:.1}", sx(x1.max(last)), sy(0.0));
         let _ = write!(
             s,
             "<path d=\"{d}\" fill=\"none\" stroke=\"{MODEL}\" stroke-width=\"2\"/>"
@@ -198,9 +204,14 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
         ml,
         16.0,
         "start",
-        &format!("error of {} over {} random vectors", o.name, h.samples),
+        &format!(
+            "error of {} over {} random vectors{}",
+            o.name,
+            h.samples,
+            if log { " (counts on a log scale)" } else { "" }
+        ),
     );
-    let ly = ht - 22.0;
+    let ly = ht - 36.0;
     let _ = write!(
         s,
         "<rect x=\"{ml}\" y=\"{:.1}\" width=\"12\" height=\"9\" fill=\"{BAR}\"/>",
@@ -236,9 +247,9 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
         ly,
         "start",
         &format!(
-            "noise model (normal with the predicted mean {} and std dev {}; dashed: mean)",
+            "noise model: sum of independent uniform source errors; mean {}, std dev {} (dashed: mean)",
             num(mu),
-            num(sd)
+            num(sd),
         ),
     );
     text(
@@ -248,6 +259,18 @@ pub fn histogram(h: &ErrorHistogram, o: &OutputReport) -> String {
         "end",
         "error (actual - exact)",
     );
+    if o.contributions
+        .iter()
+        .any(|c| matches!(c.kind, Some(SourceKind::Saturation | SourceKind::Wrap)))
+    {
+        text(
+            &mut s,
+            ml + 16.0,
+            ly + 15.0,
+            "start",
+            "(the model covers roundings and quantization; saturation and wrap are outside it)",
+        );
+    }
     s.push_str("</svg>");
     s
 }
@@ -353,7 +376,7 @@ pub fn contributions(o: &OutputReport) -> String {
 #[must_use]
 pub fn ranges(nodes: &[NodeReport]) -> String {
     let rows = nodes.len().max(1);
-    let (w, row) = (660.0, 20.0);
+    let (w, row) = (900.0, 20.0);
     let (label_w, mt) = (150.0, 30.0);
     let track_w = w - label_w - 170.0;
     let ht = mt + row * rows as f64 + 10.0;
@@ -463,4 +486,49 @@ fn nice_ticks(a: f64, b: f64) -> Vec<f64> {
         t += step;
     }
     v
+}
+
+/// The noise model's distribution of an output's error: the convolution of
+/// each source's contribution, taken as uniform over its exact interval
+/// (a constant's known error is a shift). Saturation and wrap sources are
+/// outside the model. Returns the left edge of the first cell, the cell
+/// width and the probability mass per cell; `None` when no source has a
+/// spread.
+fn predicted_density(o: &OutputReport) -> Option<(f64, f64, Vec<f64>)> {
+    const CELLS: f64 = 1024.0;
+    let boxes: Vec<(f64, f64)> = o
+        .contributions
+        .iter()
+        .filter(|c| !matches!(c.kind, Some(SourceKind::Saturation | SourceKind::Wrap)))
+        .map(|c| (c.interval.lo.approx, c.interval.hi.approx))
+        .collect();
+    let total: f64 = boxes.iter().map(|(lo, hi)| hi - lo).sum();
+    if !(total.is_finite() && total > 0.0) {
+        return None;
+    }
+    let dx = total / CELLS;
+    let mut start = 0.0;
+    let mut mass = vec![1.0];
+    for (lo, hi) in boxes {
+        let len = ((hi - lo) / dx).round() as usize;
+        if len <= 1 {
+            // Narrower than a cell (or a constant's known error): a shift.
+            start += (lo + hi) / 2.0;
+            continue;
+        }
+        start += lo;
+        let mut next = vec![0.0; mass.len() + len - 1];
+        // A moving sum over the box, with prefix sums.
+        let mut prefix = vec![0.0; mass.len() + 1];
+        for (i, m) in mass.iter().enumerate() {
+            prefix[i + 1] = prefix[i] + m;
+        }
+        for (k, v) in next.iter_mut().enumerate() {
+            let hi_i = (k + 1).min(mass.len());
+            let lo_i = (k + 1).saturating_sub(len);
+            *v = (prefix[hi_i] - prefix[lo_i]) / len as f64;
+        }
+        mass = next;
+    }
+    (mass.len() > 1).then_some((start, dx, mass))
 }
