@@ -4,7 +4,7 @@
 //!
 //! Vectors: seeded random vectors (inputs uniform over their ranges: exact
 //! inputs uniform over their grid points, real inputs uniform over the real
-//! range at a resolution of 2^-48 of the range), every corner of the input
+//! range at a resolution 24 bits finer than the format's step), every corner of the input
 //! box (or a random sample of corners when there are too many), and a
 //! search for the worst error at each output: coordinate ascent over the
 //! corners from the worst corner found, then a walk that moves one input at
@@ -389,8 +389,20 @@ impl Run<'_> {
                     let r = Integer::from(rng.random::<u128>()) % n;
                     Rational::from(lo + Rational::from(r) * &self.steps[k])
                 } else {
-                    let u = Rational::from(rng.random_range(0..=(1u64 << 48)));
-                    Rational::from(lo + Rational::from(hi - lo) * u * pow2(-48))
+                    // A real value: lo + (hi - lo)·u/2^m with u uniform in
+                    // [0, 2^m], m at least 24 bits finer than the format's
+                    // step over the whole range, so rounding residues are
+                    // uniform too.
+                    let f = self.sim.path.node(self.sim.inputs[k]).format;
+                    let m = (f.width() + 24).max(48);
+                    let mut u = Integer::new();
+                    for _ in 0..m.div_ceil(64) {
+                        u = (u << 64u32) + rng.random::<u64>();
+                    }
+                    u.keep_bits_mut(m);
+                    Rational::from(
+                        lo + Rational::from(hi - lo) * Rational::from(u) * pow2(-i64::from(m)),
+                    )
                 };
                 self.sim.input_value(k, x, rng.random())
             })
