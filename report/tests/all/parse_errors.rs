@@ -24,7 +24,7 @@ const CASES: &[(&str, usize, usize, &str)] = &[
         39,
         "a rounding mode",
     ),
-    ("input x : Q0.15 in [-1, 0.5] extra", 1, 31, "end of line"),
+    ("input x : Q0.15 in [-1, 0.5] extra", 1, 30, "end of line"),
     ("input in : Q0.15 in [-1, 0.5]", 1, 7, "keyword"),
     (
         "input x : Q0.15 in [-1, 0.5]\ninput x : Q0.15 in [-1, 0.5]",

@@ -65,8 +65,8 @@ fn build(
         let r = qbound_report::exact::format_range(fmt);
         let span = Rational::from(&r.hi - &r.lo);
         let (a, c) = (a.min(c), a.max(c));
-        let lo = Rational::from(&r.lo + Rational::from(&span * Rational::from((a, 65535u32))));
-        let hi = Rational::from(&r.lo + Rational::from(&span * Rational::from((c, 65535u32))));
+        let lo: Rational = &r.lo + &span * Rational::from((a, 65535u32));
+        let hi: Rational = &r.lo + &span * Rational::from((c, 65535u32));
         let kind = kind.map_or(InputKind::Exact, |m| {
             InputKind::Quantized(Rounding::ALL[m % 9])
         });
