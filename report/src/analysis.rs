@@ -279,7 +279,9 @@ impl Affine {
             .map(|t| (term_interval(&t, sources).max_abs(), t))
             .collect();
         keyed.sort_by(|a, b| b.0.cmp(&a.0));
-        for (_, t) in keyed.drain(max..) {
+        // Fold down to half the cap, so that folding (a sort) happens once
+        // per max/2 new sources, not at every node.
+        for (_, t) in keyed.drain(max.div_ceil(2)..) {
             self.rem = self.rem.add(&term_interval(&t, sources));
             let (m, v) = term_moments(&t, &sources[t.src]);
             self.rem_mean += m;
@@ -794,14 +796,13 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                         .scale_signal(&ny.ideal, ny.signal_mean, ny.signal_var),
                     false,
                 );
-            if !nx.form.terms.is_empty() || !nx.form.rem.is_zero() {
-                if !ny.form.terms.is_empty() || !ny.form.rem.is_zero() {
-                    form.rem = form.rem.add(&nx.error.mul(&ny.error));
-                    form.rem_mean += nx.err_mean * ny.err_mean;
-                    let e2 =
-                        (nx.err_var + nx.err_mean.powi(2)) * (ny.err_var + ny.err_mean.powi(2));
-                    form.rem_var += (e2 - (nx.err_mean * ny.err_mean).powi(2)).max(0.0);
-                }
+            if (!nx.form.terms.is_empty() || !nx.form.rem.is_zero())
+                && (!ny.form.terms.is_empty() || !ny.form.rem.is_zero())
+            {
+                form.rem = form.rem.add(&nx.error.mul(&ny.error));
+                form.rem_mean += nx.err_mean * ny.err_mean;
+                let e2 = (nx.err_var + nx.err_mean.powi(2)) * (ny.err_var + ny.err_mean.powi(2));
+                form.rem_var += (e2 - (nx.err_mean * ny.err_mean).powi(2)).max(0.0);
             }
             let ex2 = nx.signal_var + nx.signal_mean.powi(2);
             let ey2 = ny.signal_var + ny.signal_mean.powi(2);

@@ -2,7 +2,6 @@
 //! into the plain-data [`Report`].
 
 use qbound::Overflow;
-use rug::Rational;
 
 use crate::analysis::{Analysis, NodeAnalysis, decimal_text, term_interval};
 use crate::exact::{Interval, ulp};
@@ -24,7 +23,7 @@ fn bound(e: &Interval, f: qbound::Format) -> ErrorBound {
     ErrorBound {
         lo: Exact::new(&e.lo),
         hi: Exact::new(&e.hi),
-        ulps: Exact::new(&Rational::from(&m / ulp(f))),
+        ulps: Exact::new(&(&m / ulp(f))),
         max_abs: Exact::new(&m),
     }
 }
@@ -214,7 +213,7 @@ pub(crate) fn assemble(
             }
         })
         .collect();
-    diagnostics.sort_by(|x, y| y.severity.cmp(&x.severity));
+    diagnostics.sort_by_key(|d| std::cmp::Reverse(d.severity));
     Report {
         nodes,
         sources,

@@ -207,7 +207,7 @@ pub fn qvalue_to_rational(v: QValue) -> Rational {
 /// format's grid and in its range.
 #[must_use]
 pub fn rational_to_qvalue(x: &Rational, format: Format) -> Option<QValue> {
-    let scaled = Rational::from(x * pow2(i64::from(format.frac_bits())));
+    let scaled = x * pow2(i64::from(format.frac_bits()));
     if *scaled.denom() != 1 {
         return None;
     }

@@ -168,7 +168,7 @@ impl Budget {
     pub fn absolute(&self, f: Format) -> Rational {
         match self {
             Budget::Absolute(x) => x.clone(),
-            Budget::Ulps(n) => Rational::from(n * crate::exact::ulp(f)),
+            Budget::Ulps(n) => n * crate::exact::ulp(f),
         }
     }
 }

@@ -214,6 +214,7 @@ impl Cursor {
     }
 
     fn keyword(&mut self, kw: &str) -> bool {
+        self.skip_ws();
         let save = self.pos;
         match self.ident() {
             Some((_, s)) if s == kw => true,
@@ -287,6 +288,7 @@ impl Cursor {
     }
 
     fn rounding(&mut self) -> Result<Rounding, ParseError> {
+        self.skip_ws();
         let start = self.pos;
         let (_, w) = self.mode_word();
         Rounding::from_name(&w).ok_or_else(|| {
@@ -297,6 +299,7 @@ impl Cursor {
     }
 
     fn overflow(&mut self) -> Result<Overflow, ParseError> {
+        self.skip_ws();
         let start = self.pos;
         let (_, w) = self.mode_word();
         Overflow::from_name(&w).ok_or_else(|| {
