@@ -62,6 +62,10 @@
 #![deny(missing_docs)]
 #![deny(unconditional_recursion)]
 
+#[cfg(test)]
+extern crate std;
+
+mod accumulate;
 mod format;
 mod kernel;
 pub mod layout;
@@ -73,6 +77,7 @@ mod typed;
 mod value;
 mod width;
 
+pub use accumulate::{rescale_slice, AccumulateError};
 pub use format::{Format, FormatError, MAX_WIDTH};
 pub use overflow::{Overflow, RangeError, Side};
 pub use rounding::Rounding;
