@@ -109,3 +109,8 @@ pub type Q<const I: usize, const F: usize> = Sq<typenum::U<I>, typenum::U<F>>;
 /// ```
 #[cfg(feature = "const-generics")]
 pub type UQ<const I: usize, const F: usize> = Uq<typenum::U<I>, typenum::U<F>>;
+
+/// The README's code blocks, compiled and run as doctests.
+#[cfg(doctest)]
+#[doc = include_str!("../README.md")]
+pub struct ReadmeDoctests;
