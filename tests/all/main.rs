@@ -5,3 +5,9 @@
 //! can be raised for long runs: `PROPTEST_CASES=100000 cargo test`.
 
 mod common;
+
+mod arith;
+mod exhaustive;
+mod families;
+mod rescale;
+mod table;
