@@ -11,3 +11,7 @@ mod exhaustive;
 mod families;
 mod rescale;
 mod table;
+mod compile_fail;
+mod nostd;
+mod references;
+mod typed;
