@@ -25,7 +25,10 @@ pub fn check_exact(op: char, a: QValue, b: QValue) {
         _ => unreachable!(),
     };
     let Some(rf) = table_format(op, fa, fb) else {
-        assert!(matches!(got, Err(FormatError::TooWide { .. })), "{fa} {op} {fb}: {got:?}");
+        assert!(
+            matches!(got, Err(FormatError::TooWide { .. })),
+            "{fa} {op} {fb}: {got:?}"
+        );
         return;
     };
     let r = got.unwrap_or_else(|e| panic!("{fa} {op} {fb}: {e}"));
@@ -36,8 +39,17 @@ pub fn check_exact(op: char, a: QValue, b: QValue) {
         '*' => wide_to_integer(a.bits()) * wide_to_integer(b.bits()),
         _ => -wide_to_integer(a.bits()),
     };
-    assert!(fits(&expect, rf), "{fa} {op} {fb}: the exact result {expect} does not fit {rf}");
-    assert_eq!(wide_to_integer(r.bits()), expect, "{fa} {op} {fb} bits {:?} {:?}", a.bits(), b.bits());
+    assert!(
+        fits(&expect, rf),
+        "{fa} {op} {fb}: the exact result {expect} does not fit {rf}"
+    );
+    assert_eq!(
+        wide_to_integer(r.bits()),
+        expect,
+        "{fa} {op} {fb} bits {:?} {:?}",
+        a.bits(),
+        b.bits()
+    );
 }
 
 /// Checks `mul_rescale` / `try_mul_rescale` into `dst` with every rounding

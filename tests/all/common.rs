@@ -14,13 +14,20 @@ use rug::{Integer, Rational};
 
 /// The exact value of a run-time fixed-point value as a rational.
 pub fn exact(v: QValue) -> Rational {
-    Rational::from((wide_to_integer(v.bits()), Integer::from(1) << v.format().frac_bits()))
+    Rational::from((
+        wide_to_integer(v.bits()),
+        Integer::from(1) << v.format().frac_bits(),
+    ))
 }
 
 /// A 129-bit integer as a `rug::Integer`.
 pub fn wide_to_integer(w: Wide) -> Integer {
     let lo = Integer::from(w.low_bits());
-    if w.is_negative() { lo - (Integer::from(1) << 128) } else { lo }
+    if w.is_negative() {
+        lo - (Integer::from(1) << 128)
+    } else {
+        lo
+    }
 }
 
 /// A `rug::Integer` in `[-2^128, 2^128)` as a 129-bit integer.
@@ -42,7 +49,10 @@ pub fn bit_range(f: Format) -> (Integer, Integer) {
 pub fn def_range(f: Format) -> (Integer, Integer) {
     let w = f.width();
     if f.is_signed() {
-        (-(Integer::from(1) << (w - 1)), (Integer::from(1) << (w - 1)) - 1)
+        (
+            -(Integer::from(1) << (w - 1)),
+            (Integer::from(1) << (w - 1)) - 1,
+        )
     } else {
         (Integer::ZERO, (Integer::from(1) << w) - 1)
     }
@@ -95,7 +105,7 @@ pub fn grid() -> Vec<Format> {
         q(31, 32),
         q(0, 63),
         uq(64, 0),
-        q(20, 45), // 66
+        q(20, 45),  // 66
         uq(50, 51), // 101
         // 128 bits
         q(127, 0),
@@ -182,7 +192,11 @@ pub fn arb_format() -> impl Strategy<Value = Format> {
 
 /// `floor(frac × 2^64)` for a fraction `num / 2^k` in `[0, 1)`.
 pub fn frac64(num: &Integer, k: u32) -> u64 {
-    let scaled = if k >= 64 { Integer::from(num >> (k - 64)) } else { Integer::from(num << (64 - k)) };
+    let scaled = if k >= 64 {
+        Integer::from(num >> (k - 64))
+    } else {
+        Integer::from(num << (64 - k))
+    };
     scaled.to_u64().unwrap()
 }
 
@@ -235,7 +249,11 @@ pub fn overflow_ref(n: &Integer, dst: Format, mode: Overflow) -> Option<Integer>
         Overflow::Wrap => Some(wrap_ref(n, dst)),
         Overflow::Saturate => Some(n.clone().clamp(&lo, &hi)),
         Overflow::SaturateSymmetric => {
-            let sym_lo = if dst.is_signed() { Integer::from(-&hi) } else { lo };
+            let sym_lo = if dst.is_signed() {
+                Integer::from(-&hi)
+            } else {
+                lo
+            };
             Some(n.clone().clamp(&sym_lo, &hi))
         }
         Overflow::Panic => fits.then(|| n.clone()),
@@ -319,7 +337,11 @@ pub fn table_format(op: char, a: Format, b: Format) -> Option<Format> {
         'n' => (true, ia, fa),
         _ => unreachable!(),
     };
-    if u32::from(signed) + i + f > 128 { None } else { Some(Format::new(signed, i, f).unwrap()) }
+    if u32::from(signed) + i + f > 128 {
+        None
+    } else {
+        Some(Format::new(signed, i, f).unwrap())
+    }
 }
 
 /// Every rounding mode, with the stochastic mode at the two random words

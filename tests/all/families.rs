@@ -23,15 +23,34 @@ pub fn int_of<T: QType>(x: T) -> Integer {
 }
 
 /// Checks the four forms of one operation against the exact result `n`.
-pub fn check_forms<T: QType>(what: &str, n: &Integer, wrapping: T, saturating: T, checked: Option<T>, overflowing: (T, bool)) {
+pub fn check_forms<T: QType>(
+    what: &str,
+    n: &Integer,
+    wrapping: T,
+    saturating: T,
+    checked: Option<T>,
+    overflowing: (T, bool),
+) {
     let f = T::FORMAT;
     let wrap = wrap_ref(n, f);
     let sat = overflow_ref(n, f, Overflow::Saturate).unwrap();
     let ok = fits(n, f);
     assert_eq!(int_of(wrapping), wrap, "wrapping {what} in {f} (exact {n})");
-    assert_eq!(int_of(saturating), sat, "saturating {what} in {f} (exact {n})");
-    assert_eq!(checked.map(int_of), ok.then(|| n.clone()), "checked {what} in {f} (exact {n})");
-    assert_eq!((int_of(overflowing.0), overflowing.1), (wrap, !ok), "overflowing {what} in {f} (exact {n})");
+    assert_eq!(
+        int_of(saturating),
+        sat,
+        "saturating {what} in {f} (exact {n})"
+    );
+    assert_eq!(
+        checked.map(int_of),
+        ok.then(|| n.clone()),
+        "checked {what} in {f} (exact {n})"
+    );
+    assert_eq!(
+        (int_of(overflowing.0), overflowing.1),
+        (wrap, !ok),
+        "overflowing {what} in {f} (exact {n})"
+    );
 }
 
 /// Every family on one pair of values of type `$T`, with the given
@@ -42,13 +61,41 @@ macro_rules! check_families {
         let (a, b): ($T, $T) = (typed(va), typed(vb));
         let (ia, ib) = (int_of(a), int_of(b));
         let sum = Integer::from(&ia + &ib);
-        check_forms("add", &sum, a.wrapping_add(b), a.saturating_add(b), a.checked_add(b), a.overflowing_add(b));
+        check_forms(
+            "add",
+            &sum,
+            a.wrapping_add(b),
+            a.saturating_add(b),
+            a.checked_add(b),
+            a.overflowing_add(b),
+        );
         let diff = Integer::from(&ia - &ib);
-        check_forms("sub", &diff, a.wrapping_sub(b), a.saturating_sub(b), a.checked_sub(b), a.overflowing_sub(b));
+        check_forms(
+            "sub",
+            &diff,
+            a.wrapping_sub(b),
+            a.saturating_sub(b),
+            a.checked_sub(b),
+            a.overflowing_sub(b),
+        );
         let neg = Integer::from(-&ia);
-        check_forms("neg", &neg, a.wrapping_neg(), a.saturating_neg(), a.checked_neg(), a.overflowing_neg());
+        check_forms(
+            "neg",
+            &neg,
+            a.wrapping_neg(),
+            a.saturating_neg(),
+            a.checked_neg(),
+            a.overflowing_neg(),
+        );
         let abs = Integer::from(ia.abs_ref());
-        check_forms("abs", &abs, a.wrapping_abs(), a.saturating_abs(), a.checked_abs(), a.overflowing_abs());
+        check_forms(
+            "abs",
+            &abs,
+            a.wrapping_abs(),
+            a.saturating_abs(),
+            a.checked_abs(),
+            a.overflowing_abs(),
+        );
         let p = Integer::from(&ia * &ib);
         let fr = <$T as QType>::FORMAT.frac_bits();
         let rnds: Vec<Rounding> = $rnds(&p, 2 * fr, fr);

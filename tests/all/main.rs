@@ -7,11 +7,11 @@
 mod common;
 
 mod arith;
+mod compile_fail;
 mod exhaustive;
 mod families;
-mod rescale;
-mod table;
-mod compile_fail;
 mod nostd;
 mod references;
+mod rescale;
+mod table;
 mod typed;

@@ -12,7 +12,13 @@ fn nostd_check_crate_builds() {
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
     let out = Command::new(env!("CARGO"))
         .current_dir(root)
-        .args(["build", "-p", "qbound-nostd-check", "--release", "--target-dir"])
+        .args([
+            "build",
+            "-p",
+            "qbound-nostd-check",
+            "--release",
+            "--target-dir",
+        ])
         .arg(root.join("target").join("nostd"))
         .env("RUSTFLAGS", "-C panic=abort")
         .env_remove("CARGO_TARGET_DIR")

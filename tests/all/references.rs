@@ -1,6 +1,6 @@
 //! Values from outside the project, each with its source.
 
-use qbound::{Format, Overflow, QValue, Rounding, Q};
+use qbound::{Format, Overflow, Q, QValue, Rounding};
 use rug::Rational;
 
 use crate::common::*;
@@ -10,7 +10,9 @@ use crate::common::*;
 fn round_int(quarters: i128, mode: Rounding) -> i128 {
     let src = Format::signed(7, 2).unwrap();
     let v = QValue::from_i128_bits(src, quarters).unwrap();
-    v.rescale(Format::signed(7, 0).unwrap(), mode, Overflow::Panic).to_i128_bits().unwrap()
+    v.rescale(Format::signed(7, 0).unwrap(), mode, Overflow::Panic)
+        .to_i128_bits()
+        .unwrap()
 }
 
 /// Source: IEEE 754-2019, clause 4.3 (rounding-direction attributes):
@@ -25,15 +27,15 @@ fn ieee754_rounding_directions() {
     use Rounding::*;
     // (value in quarters, ties-to-even, ties-to-away, toward +inf, toward -inf, toward zero)
     let table: &[(i128, [i128; 5])] = &[
-        (10, [2, 3, 3, 2, 2]),      //  2.5
-        (14, [4, 4, 4, 3, 3]),      //  3.5
+        (10, [2, 3, 3, 2, 2]),       //  2.5
+        (14, [4, 4, 4, 3, 3]),       //  3.5
         (-10, [-2, -3, -2, -3, -2]), // -2.5
         (-14, [-4, -4, -3, -4, -3]), // -3.5
-        (11, [3, 3, 3, 2, 2]),      //  2.75
+        (11, [3, 3, 3, 2, 2]),       //  2.75
         (-11, [-3, -3, -2, -3, -2]), // -2.75
-        (9, [2, 2, 3, 2, 2]),       //  2.25
-        (-9, [-2, -2, -2, -3, -2]), // -2.25
-        (8, [2, 2, 2, 2, 2]),       //  2.0 exact
+        (9, [2, 2, 3, 2, 2]),        //  2.25
+        (-9, [-2, -2, -2, -3, -2]),  // -2.25
+        (8, [2, 2, 2, 2, 2]),        //  2.0 exact
     ];
     for &(x, [even, away, up, down, zero]) in table {
         assert_eq!(round_int(x, NearestTiesEven), even, "roundTiesToEven {x}/4");
@@ -59,13 +61,19 @@ fn q7_8_range_and_step() {
     type T = Q<7, 8>;
     assert_eq!(T::FORMAT.width(), 16);
     assert_eq!(exact(T::MIN.to_value()), Rational::from(-128));
-    assert_eq!(exact(T::MAX.to_value()), Rational::from((12799609375i64, 100000000i64)));
+    assert_eq!(
+        exact(T::MAX.to_value()),
+        Rational::from((12799609375i64, 100000000i64))
+    );
     assert_eq!(exact(T::STEP.to_value()), Rational::from((1, 256)));
     let f: Format = "Q7.8".parse().unwrap();
     assert_eq!(f, T::FORMAT);
     let (lo, hi) = bit_range(f);
     assert_eq!(Rational::from((lo, 256)), -128);
-    assert_eq!(Rational::from((hi, 256)), Rational::from((12799609375i64, 100000000i64)));
+    assert_eq!(
+        Rational::from((hi, 256)),
+        Rational::from((12799609375i64, 100000000i64))
+    );
 }
 
 /// Common practice: the bits 0x19 (binary 110.01) with two fraction bits
@@ -85,6 +93,9 @@ fn q0_15_range() {
     let f: Format = "Q0.15".parse().unwrap();
     assert_eq!(f.width(), 16);
     assert_eq!(exact(QValue::min(f)), Rational::from(-1));
-    assert_eq!(exact(QValue::max(f)), Rational::from((999969482421875i64, 1000000000000000i64)));
+    assert_eq!(
+        exact(QValue::max(f)),
+        Rational::from((999969482421875i64, 1000000000000000i64))
+    );
     assert_eq!(exact(Q::<0, 15>::MAX.to_value()), exact(QValue::max(f)));
 }

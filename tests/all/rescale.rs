@@ -26,7 +26,12 @@ pub fn check_rescale(src: Format, bits: &Integer, dst: Format, rnd: Rounding) {
         }
         if ovf == Overflow::SaturateSymmetric && dst.is_signed() {
             let g = got.unwrap();
-            assert_ne!(g, QValue::min(dst), "symmetric saturation gave MIN: {}", ctx());
+            assert_ne!(
+                g,
+                QValue::min(dst),
+                "symmetric saturation gave MIN: {}",
+                ctx()
+            );
         }
     }
     let (lo, hi) = def_range(dst);
@@ -37,7 +42,12 @@ pub fn check_rescale(src: Format, bits: &Integer, dst: Format, rnd: Rounding) {
         }
         Err(e) => {
             assert_eq!(e.format(), dst);
-            let side = if n > hi { Side::Above } else { assert!(n < lo); Side::Below };
+            let side = if n > hi {
+                Side::Above
+            } else {
+                assert!(n < lo);
+                Side::Below
+            };
             assert_eq!(e.side(), side, "{src} {bits} -> {dst} {rnd:?}");
         }
     }

@@ -54,7 +54,11 @@ struct Results {
 
 impl Results {
     fn new() -> Results {
-        Results { lo: Rational::from(i32::MAX), hi: Rational::from(i32::MIN), f: 0 }
+        Results {
+            lo: Rational::from(i32::MAX),
+            hi: Rational::from(i32::MIN),
+            f: 0,
+        }
     }
     fn add(&mut self, x: Rational) {
         self.f = self.f.max(frac_needed(&x));
@@ -74,28 +78,52 @@ impl Results {
 /// `(I, F)` are integer and fraction bits; every rule involves an unsigned
 /// operand.
 const NARROWER_RULES: &[(&str, fn(char, Format, Format) -> bool)] = &[
-    ("x × UQ1.0 or UQ1.0 × x: the factor is only 0 or 1", |op, a, b| {
-        op == '*' && (is(a, false, 1, 0) || is(b, false, 1, 0))
+    (
+        "x × UQ1.0 or UQ1.0 × x: the factor is only 0 or 1",
+        |op, a, b| op == '*' && (is(a, false, 1, 0) || is(b, false, 1, 0)),
+    ),
+    (
+        "x × UQ0.1 or UQ0.1 × x with x having I >= 1: the factor is only 0 or 1/2",
+        |op, a, b| {
+            op == '*'
+                && ((is(a, false, 0, 1) && b.int_bits() >= 1)
+                    || (is(b, false, 0, 1) && a.int_bits() >= 1))
+        },
+    ),
+    (
+        "x + UQ0.F or UQ0.F + x with x having F = 0: an integer plus less than one",
+        |op, a, b| {
+            op == '+' && ((is_uq0(a) && b.frac_bits() == 0) || (is_uq0(b) && a.frac_bits() == 0))
+        },
+    ),
+    (
+        "Q0.0 + UQ or UQ + Q0.0: adding 0 or -1 to an unsigned value",
+        |op, a, b| {
+            op == '+'
+                && ((is(a, true, 0, 0) && !b.is_signed()) || (is(b, true, 0, 0) && !a.is_signed()))
+        },
+    ),
+    (
+        "Q0.F + UQI.0 or UQI.0 + Q0.F (I >= 1): less than one in magnitude plus an integer",
+        |op, a, b| {
+            let q0 = |f: Format| f.is_signed() && f.int_bits() == 0;
+            let uint = |f: Format| !f.is_signed() && f.frac_bits() == 0;
+            op == '+' && ((q0(a) && uint(b)) || (q0(b) && uint(a)))
+        },
+    ),
+    (
+        "Q0.F - UQI.0 (I >= 1): above -1 minus an integer",
+        |op, a, b| {
+            op == '-' && a.is_signed() && a.int_bits() == 0 && !b.is_signed() && b.frac_bits() == 0
+        },
+    ),
+    (
+        "UQ0.F - UQ1.0: the difference lies in (-1, 1)",
+        |op, a, b| op == '-' && is_uq0(a) && is(b, false, 1, 0),
+    ),
+    ("-UQ1.0: the negation is 0 or -1", |op, a, _| {
+        op == 'n' && is(a, false, 1, 0)
     }),
-    ("x × UQ0.1 or UQ0.1 × x with x having I >= 1: the factor is only 0 or 1/2", |op, a, b| {
-        op == '*' && ((is(a, false, 0, 1) && b.int_bits() >= 1) || (is(b, false, 0, 1) && a.int_bits() >= 1))
-    }),
-    ("x + UQ0.F or UQ0.F + x with x having F = 0: an integer plus less than one", |op, a, b| {
-        op == '+' && ((is_uq0(a) && b.frac_bits() == 0) || (is_uq0(b) && a.frac_bits() == 0))
-    }),
-    ("Q0.0 + UQ or UQ + Q0.0: adding 0 or -1 to an unsigned value", |op, a, b| {
-        op == '+' && ((is(a, true, 0, 0) && !b.is_signed()) || (is(b, true, 0, 0) && !a.is_signed()))
-    }),
-    ("Q0.F + UQI.0 or UQI.0 + Q0.F (I >= 1): less than one in magnitude plus an integer", |op, a, b| {
-        let q0 = |f: Format| f.is_signed() && f.int_bits() == 0;
-        let uint = |f: Format| !f.is_signed() && f.frac_bits() == 0;
-        op == '+' && ((q0(a) && uint(b)) || (q0(b) && uint(a)))
-    }),
-    ("Q0.F - UQI.0 (I >= 1): above -1 minus an integer", |op, a, b| {
-        op == '-' && a.is_signed() && a.int_bits() == 0 && !b.is_signed() && b.frac_bits() == 0
-    }),
-    ("UQ0.F - UQ1.0: the difference lies in (-1, 1)", |op, a, b| op == '-' && is_uq0(a) && is(b, false, 1, 0)),
-    ("-UQ1.0: the negation is 0 or -1", |op, a, _| op == 'n' && is(a, false, 1, 0)),
 ];
 
 fn is(f: Format, signed: bool, i: u32, fr: u32) -> bool {
@@ -115,17 +143,26 @@ fn format_table_holds_every_result_and_is_narrowest_but_listed_pairs() {
         let n = narrowest(rule.is_signed(), &r.lo, &r.hi, r.f);
         assert!(n.width() <= rule.width());
         assert!(r.f <= rule.frac_bits());
-        let what = if op == 'n' { format!("-{a}") } else { format!("{a} {op} {b}") };
+        let what = if op == 'n' {
+            format!("-{a}")
+        } else {
+            format!("{a} {op} {b}")
+        };
         if n.width() < rule.width() {
             found.insert(format!("{what}: table {rule}, {n} would do"));
         }
         if let Some((why, _)) = NARROWER_RULES.iter().find(|(_, p)| p(op, a, b)) {
             predicted.insert(format!("{what}: table {rule}, {n} would do"));
-            assert!(n.width() < rule.width(), "{what}: rule '{why}' predicts a narrower format, none found");
+            assert!(
+                n.width() < rule.width(),
+                "{what}: rule '{why}' predicts a narrower format, none found"
+            );
         }
     };
     for &fa in &formats {
-        let va: Vec<QValue> = all_bits(fa).map(|x| QValue::from_i128_bits(fa, x).unwrap()).collect();
+        let va: Vec<QValue> = all_bits(fa)
+            .map(|x| QValue::from_i128_bits(fa, x).unwrap())
+            .collect();
         let mut neg = Results::new();
         for &a in &va {
             check_exact('n', a, a);
@@ -133,7 +170,9 @@ fn format_table_holds_every_result_and_is_narrowest_but_listed_pairs() {
         }
         report('n', fa, fa, Format::negation(fa).unwrap(), &neg);
         for &fb in &formats {
-            let vb: Vec<QValue> = all_bits(fb).map(|x| QValue::from_i128_bits(fb, x).unwrap()).collect();
+            let vb: Vec<QValue> = all_bits(fb)
+                .map(|x| QValue::from_i128_bits(fb, x).unwrap())
+                .collect();
             let (mut sum, mut diff, mut prod) = (Results::new(), Results::new(), Results::new());
             for &a in &va {
                 let ea = exact(a);
@@ -159,7 +198,10 @@ fn format_table_holds_every_result_and_is_narrowest_but_listed_pairs() {
     }
     let predicted: Vec<String> = predicted.into_iter().collect();
     let unexplained: Vec<&String> = found.iter().filter(|l| !predicted.contains(l)).collect();
-    assert!(unexplained.is_empty(), "pairs with a narrower result format that no rule lists: {unexplained:#?}");
+    assert!(
+        unexplained.is_empty(),
+        "pairs with a narrower result format that no rule lists: {unexplained:#?}"
+    );
     assert_eq!(found, predicted);
     // The count over widths 1..=6, as found when the rules were written.
     assert_eq!(found.len(), 454);

@@ -26,14 +26,35 @@ fn samples(f: Format, seed: u64) -> Vec<QValue> {
 
 fn check_pair<A, B>()
 where
-    A: QType + Add<B, Output: QType> + Sub<B, Output: QType> + Mul<B, Output: QType> + Neg<Output: QType> + PartialOrd<B>,
+    A: QType
+        + Add<B, Output: QType>
+        + Sub<B, Output: QType>
+        + Mul<B, Output: QType>
+        + Neg<Output: QType>
+        + PartialOrd<B>,
     B: QType,
 {
     let (fa, fb) = (A::FORMAT, B::FORMAT);
-    assert_eq!(<A as Add<B>>::Output::FORMAT, Format::sum(fa, fb).unwrap(), "{fa} + {fb}");
-    assert_eq!(<A as Sub<B>>::Output::FORMAT, Format::difference(fa, fb).unwrap(), "{fa} - {fb}");
-    assert_eq!(<A as Mul<B>>::Output::FORMAT, Format::product(fa, fb).unwrap(), "{fa} * {fb}");
-    assert_eq!(<A as Neg>::Output::FORMAT, Format::negation(fa).unwrap(), "-{fa}");
+    assert_eq!(
+        <A as Add<B>>::Output::FORMAT,
+        Format::sum(fa, fb).unwrap(),
+        "{fa} + {fb}"
+    );
+    assert_eq!(
+        <A as Sub<B>>::Output::FORMAT,
+        Format::difference(fa, fb).unwrap(),
+        "{fa} - {fb}"
+    );
+    assert_eq!(
+        <A as Mul<B>>::Output::FORMAT,
+        Format::product(fa, fb).unwrap(),
+        "{fa} * {fb}"
+    );
+    assert_eq!(
+        <A as Neg>::Output::FORMAT,
+        Format::negation(fa).unwrap(),
+        "-{fa}"
+    );
     let (sa, sb) = (samples(fa, 1), samples(fb, 2));
     for &va in &sa {
         let a: A = typed(va);
@@ -43,9 +64,18 @@ where
         for &vb in &sb {
             let b: B = typed(vb);
             let same = |x: QValue, y: QValue| x.format() == y.format() && x.bits() == y.bits();
-            assert!(same((a + b).to_value(), va.exact_add(vb).unwrap()), "{va:?} + {vb:?}");
-            assert!(same((a - b).to_value(), va.exact_sub(vb).unwrap()), "{va:?} - {vb:?}");
-            assert!(same((a * b).to_value(), va.exact_mul(vb).unwrap()), "{va:?} * {vb:?}");
+            assert!(
+                same((a + b).to_value(), va.exact_add(vb).unwrap()),
+                "{va:?} + {vb:?}"
+            );
+            assert!(
+                same((a - b).to_value(), va.exact_sub(vb).unwrap()),
+                "{va:?} - {vb:?}"
+            );
+            assert!(
+                same((a * b).to_value(), va.exact_mul(vb).unwrap()),
+                "{va:?} * {vb:?}"
+            );
             assert_eq!(a.partial_cmp(&b), Some(va.cmp(&vb)), "{va:?} vs {vb:?}");
         }
     }
