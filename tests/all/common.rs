@@ -260,6 +260,24 @@ pub fn overflow_ref(n: &Integer, dst: Format, mode: Overflow) -> Option<Integer>
     }
 }
 
+/// Checks a result against the reference: the stored integer in `dst`,
+/// or `None` when a panic was expected (and happened).
+pub fn assert_outcome(
+    expect: &Option<Integer>,
+    got: Option<QValue>,
+    dst: Format,
+    ctx: impl Fn() -> String,
+) {
+    match (expect, got) {
+        (Some(e), Some(g)) => {
+            assert_eq!(g.format(), dst, "{}", ctx());
+            assert_eq!(wide_to_integer(g.bits()), *e, "{}", ctx());
+        }
+        (None, None) => {}
+        (e, g) => panic!("{}: expected {e:?}, got {g:?}", ctx()),
+    }
+}
+
 /// `n` reduced modulo `2^W` into the range of `dst`.
 pub fn wrap_ref(n: &Integer, dst: Format) -> Integer {
     let (lo, _) = def_range(dst);

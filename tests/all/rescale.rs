@@ -16,14 +16,7 @@ pub fn check_rescale(src: Format, bits: &Integer, dst: Format, rnd: Rounding) {
         let expect = overflow_ref(&n, dst, ovf);
         let got = catch(|| v.rescale(dst, rnd, ovf));
         let ctx = || format!("{src} bits {bits} -> {dst}, {rnd:?}, {ovf:?} (rounded {n})");
-        match (&expect, got) {
-            (Some(e), Some(g)) => {
-                assert_eq!(g.format(), dst, "{}", ctx());
-                assert_eq!(wide_to_integer(g.bits()), *e, "{}", ctx());
-            }
-            (None, None) => {}
-            (e, g) => panic!("{}: expected {e:?}, got {g:?}", ctx()),
-        }
+        assert_outcome(&expect, got, dst, ctx);
         if ovf == Overflow::SaturateSymmetric && dst.is_signed() {
             let g = got.unwrap();
             assert_ne!(
