@@ -88,7 +88,7 @@ pub use value::QValue;
 #[doc(hidden)]
 pub use storage::{Residue, WorkInt};
 #[doc(hidden)]
-pub use typed::{HoldsFractionBits, HoldsIntegerBits};
+pub use typed::{HoldsFractionBits, HoldsIntegerBits, SignedIntoUnsigned};
 
 /// The signed format `Q(I, F)` with `usize` parameters: `Q<7, 8>` is
 /// [`Sq<U7, U8>`](Sq).
