@@ -208,7 +208,7 @@ pub fn round_shift(x: &Integer, k: u32, mode: Rounding) -> Integer {
     }
     // x = fl * 2^k + r with 0 <= r < 2^k.
     let fl = Integer::from(x >> k);
-    let r = Integer::from(x - Integer::from(&fl << k));
+    let r = x - Integer::from(&fl << k);
     debug_assert!(r >= 0);
     if r == 0 {
         return fl;

@@ -77,7 +77,10 @@ impl Results {
 /// the other's that the carry the table provides for can never happen.
 /// `(I, F)` are integer and fraction bits; every rule involves an unsigned
 /// operand.
-const NARROWER_RULES: &[(&str, fn(char, Format, Format) -> bool)] = &[
+/// A rule: its description, and whether it applies to (operation, lhs, rhs).
+type NarrowerRule = (&'static str, fn(char, Format, Format) -> bool);
+
+const NARROWER_RULES: &[NarrowerRule] = &[
     (
         "x × UQ1.0 or UQ1.0 × x: the factor is only 0 or 1",
         |op, a, b| op == '*' && (is(a, false, 1, 0) || is(b, false, 1, 0)),
