@@ -5,3 +5,13 @@
 //! can be raised for long runs: `PROPTEST_CASES=100000 cargo test`.
 
 mod common;
+
+mod arith;
+mod compile_fail;
+mod exhaustive;
+mod families;
+mod nostd;
+mod references;
+mod rescale;
+mod table;
+mod typed;
