@@ -8,7 +8,7 @@
 //! reference model of that filter: the firmware's test bench compares its
 //! output word for word.
 //!
-//! Run: `cargo run --release --example vibration_fir`
+//! Run: `cargo run --release -p qbound --example vibration_fir`
 
 use qbound::{Format, Overflow, Q, Rounding};
 

@@ -2,10 +2,10 @@
 //! (`qbound describe Q1.15`).
 //!
 //! ```
-//! let f: qbound::Format = "Q1.15".parse()?;
+//! let f: qbound::Format = "Q0.15".parse()?;
 //! let d = qbound_report::describe::describe(f);
-//! assert_eq!(d.min, "-2");
-//! assert_eq!(d.max, "1.999969482421875");
+//! assert_eq!(d.min, "-1");
+//! assert_eq!(d.max, "0.999969482421875");
 //! assert_eq!(d.step, "0.000030517578125");
 //! assert_eq!(d.storage, "i16");
 //! # Ok::<(), qbound::FormatError>(())

@@ -102,10 +102,10 @@ impl<'a> Sampler<'a> {
                     let step = ulp(self.path.node(self.sim.inputs()[k]).format);
                     let n = Integer::from((Rational::from(hi - lo) / &step).numer()) + 1u32;
                     let r = Integer::from(rng.random::<u128>()) % n;
-                    Rational::from(lo + Rational::from(r) * step)
+                    lo + Rational::from(r) * step
                 } else {
                     let u = Rational::from(rng.random_range(0..=(1u64 << 48)));
-                    Rational::from(lo + Rational::from(hi - lo) * u * pow2(-48))
+                    lo + Rational::from(hi - lo) * u * pow2(-48)
                 };
                 self.sim.input_value(k, x, rng.random())
             })

@@ -474,7 +474,7 @@ enum Mode {
 /// Round to a multiple of 2^-frac: floor, or nearest with ties to even
 /// (IEEE 754 roundTiesToEven applied to a fixed-point grid).
 fn round(x: &Rational, frac: i32, mode: Mode) -> Rational {
-    let scaled = Rational::from(x * pow2(frac));
+    let scaled = x * pow2(frac);
     let fl = scaled.clone().floor().numer().clone();
     let rem = scaled - Rational::from(fl.clone());
     let half = Rational::from((1, 2));
@@ -526,7 +526,7 @@ fn konst(s: &str, frac: i32) -> Rational {
 /// The two's complement bits of `x` in a word of `width` bits with `frac`
 /// fraction bits, as lower-case hex.
 fn hex(x: &Rational, width: u32, frac: i32) -> String {
-    let n = Rational::from(x * pow2(frac));
+    let n = x * pow2(frac);
     assert_eq!(*n.denom(), 1, "{x} is not on the grid");
     let mut bits = n.numer().clone();
     if bits < 0 {
@@ -540,7 +540,7 @@ fn hex(x: &Rational, width: u32, frac: i32) -> String {
 fn reference(d: &str, x: &[Rational]) -> Vec<(Rational, u32, i32)> {
     match d {
         "load_cell" => {
-            let net = Rational::from(&x[0] - decimal("83251"));
+            let net = &x[0] - decimal("83251");
             let exact = net * konst("0.000642317", 31) + konst("-1.37", 10);
             let g = saturate(round(&exact, 4, Mode::NearestEven), &limits(true, 13, 4));
             vec![(g, 18, 4)]
@@ -566,7 +566,7 @@ fn reference(d: &str, x: &[Rational]) -> Vec<(Rational, u32, i32)> {
         "tone_power" => {
             let power = Rational::from(&x[0] * &x[0]) + Rational::from(&x[1] * &x[1]);
             let p16 = saturate(round(&power, 15, Mode::Floor), &limits(false, 1, 15));
-            let margin = Rational::from(&p16 - decimal("0.0625"));
+            let margin = &p16 - decimal("0.0625");
             vec![(p16, 16, 15), (margin, 17, 15)]
         }
         "vibration_fir" => {

@@ -274,9 +274,9 @@ fn run_report(
     with_progress(
         quiet,
         &format!("simulating {vectors} random vectors and the corners"),
-        || simulate(path, &analysis, &opts),
+        || simulate(path, &analysis, &opts).map_err(|e| e.to_string()),
     )
-    .map_err(|e| Failure::Bug(e.to_string()))
+    .map_err(Failure::Bug)
 }
 
 fn audit(a: &AuditArgs) -> Result<ExitCode, Failure> {

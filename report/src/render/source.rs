@@ -24,7 +24,7 @@ use crate::parse::ParseError;
 /// qbound_report::render::source::parse_error(&err, text, "x.q", false, &mut out)?;
 /// let shown = String::from_utf8(out)?;
 /// assert!(shown.contains("--> x.q:1:"));
-/// assert!(shown.contains(" 1 | input x : Q0.15 in [-1, 1\n"));
+/// assert!(shown.contains("\n1 | input x : Q0.15 in [-1, 1\n"));
 /// assert!(shown.contains('^'));
 /// # Ok::<(), Box<dyn std::error::Error>>(())
 /// ```
