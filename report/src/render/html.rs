@@ -4,7 +4,7 @@
 use std::io::{self, Write};
 
 use super::svg::{self, escape};
-use super::{Context, SAFETY_CAUTION, headroom_text, num, overflow_verdict, range_text};
+use super::{Context, NodeRow, SAFETY_CAUTION, num};
 use crate::result::{Report, Severity};
 
 const STYLE: &str = "
@@ -106,8 +106,8 @@ pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result
         "<table><tr><th>node</th><th>operation</th><th>format</th><th>range</th><th>headroom (bits)</th><th>overflow</th><th>bound</th><th>ulps</th><th>measured</th><th>line</th></tr>"
     )?;
     for n in &report.nodes {
-        let verdict = overflow_verdict(n);
-        let class = match verdict {
+        let r = NodeRow::new(n);
+        let class = match r.verdict {
             "WRAPS" | "PANICS" | "OVERFLOWS" => "bad",
             "SATURATES" => "warn",
             "no" => "ok",
@@ -115,19 +115,18 @@ pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result
         };
         writeln!(
             out,
-            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"{class}\" title=\"{}\">{verdict}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>",
-            escape(&n.label),
-            escape(&n.detail),
-            escape(&n.format),
-            escape(&range_text(&n.actual_range)),
-            headroom_text(n),
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"{class}\" title=\"{}\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>",
+            escape(&r.label),
+            escape(&r.detail),
+            escape(&r.format),
+            escape(&r.range),
+            r.headroom,
             escape(&n.overflow.detail),
-            num(n.error.max_abs.approx),
-            num(n.error.ulps.approx),
-            n.measured
-                .as_ref()
-                .map_or("-".to_owned(), |m| num(m.max_abs.approx)),
-            n.span.map_or(String::new(), |s| s.line.to_string()),
+            r.verdict,
+            r.bound,
+            r.ulps,
+            r.measured,
+            r.line,
         )?;
     }
     writeln!(out, "</table>")?;

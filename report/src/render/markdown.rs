@@ -3,7 +3,7 @@
 
 use std::io::{self, Write};
 
-use super::{Context, SAFETY_CAUTION, headroom_text, line_of, num, overflow_verdict, range_text};
+use super::{Context, NodeRow, SAFETY_CAUTION, line_of, num};
 use crate::result::{Report, Severity};
 
 /// Escape the characters that break a table cell.
@@ -94,21 +94,20 @@ pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result
     )?;
     writeln!(out, "|---|---|---|---|--:|---|--:|--:|--:|--:|")?;
     for n in &report.nodes {
+        let r = NodeRow::new(n);
         writeln!(
             out,
             "| {} | {} | {} | {} | {} | {} | {} | {} | {} | {} |",
-            md(&n.label),
-            md(&n.detail),
-            n.format,
-            range_text(&n.actual_range),
-            headroom_text(n),
-            overflow_verdict(n),
-            num(n.error.max_abs.approx),
-            num(n.error.ulps.approx),
-            n.measured
-                .as_ref()
-                .map_or("-".to_owned(), |m| num(m.max_abs.approx)),
-            n.span.map_or(String::new(), |s| s.line.to_string()),
+            md(&r.label),
+            md(&r.detail),
+            r.format,
+            r.range,
+            r.headroom,
+            r.verdict,
+            r.bound,
+            r.ulps,
+            r.measured,
+            r.line
         )?;
     }
     writeln!(out)?;

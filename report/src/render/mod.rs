@@ -184,12 +184,7 @@ pub fn format_limits(format: &str) -> Option<(f64, f64)> {
 #[must_use]
 pub fn headroom_bits(n: &NodeReport) -> Option<f64> {
     let (fmin, fmax) = format_limits(&n.format)?;
-    let r = n
-        .overflow
-        .unclamped_range
-        .as_ref()
-        .unwrap_or(&n.actual_range);
-    let (lo, hi) = (r.lo.approx, r.hi.approx);
+    let (lo, hi) = value_range(n);
     if hi <= 0.0 && lo >= 0.0 {
         return None;
     }
@@ -236,4 +231,71 @@ pub fn overflow_verdict(n: &NodeReport) -> &'static str {
 #[must_use]
 pub fn line_of(span: Option<crate::model::Span>) -> String {
     span.map(|s| format!("line {}", s.line)).unwrap_or_default()
+}
+
+/// The range a node's value takes before any overflow mode acts (the
+/// actual range for nodes that cannot overflow), as `f64` ends.
+#[must_use]
+pub fn value_range(n: &NodeReport) -> (f64, f64) {
+    let r = n
+        .overflow
+        .unclamped_range
+        .as_ref()
+        .unwrap_or(&n.actual_range);
+    (r.lo.approx, r.hi.approx)
+}
+
+/// One node's row as the tables show it, every cell as text.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct NodeRow {
+    /// Name or `#id (op)`.
+    pub label: String,
+    /// The operation in a few words.
+    pub detail: String,
+    /// The format.
+    pub format: String,
+    /// The fixed-point value's range.
+    pub range: String,
+    /// Headroom in bits ([`headroom_text`]).
+    pub headroom: String,
+    /// [`overflow_verdict`].
+    pub verdict: &'static str,
+    /// Sound worst-case |error|.
+    pub bound: String,
+    /// The bound in ulps.
+    pub ulps: String,
+    /// Largest |error| measured, `-` without a simulation.
+    pub measured: String,
+    /// The line in the audit text, or empty.
+    pub line: String,
+}
+
+impl NodeRow {
+    /// The row of `n`.
+    ///
+    /// ```
+    /// let path = qbound_report::parse("input x : Q0.15 in [-1, 0.5]\nlet y = rescale(x, Q0.7, floor, wrap)\noutput y")?;
+    /// let report = qbound_report::analyze(&path).report(&path);
+    /// let row = qbound_report::render::NodeRow::new(&report.nodes[1]);
+    /// assert_eq!((row.label.as_str(), row.verdict, row.line.as_str()), ("y", "no", "2"));
+    /// # Ok::<(), qbound_report::ParseError>(())
+    /// ```
+    #[must_use]
+    pub fn new(n: &NodeReport) -> NodeRow {
+        NodeRow {
+            label: n.label.clone(),
+            detail: n.detail.clone(),
+            format: n.format.clone(),
+            range: range_text(&n.actual_range),
+            headroom: headroom_text(n),
+            verdict: overflow_verdict(n),
+            bound: num(n.error.max_abs.approx),
+            ulps: num(n.error.ulps.approx),
+            measured: n
+                .measured
+                .as_ref()
+                .map_or("-".to_owned(), |m| num(m.max_abs.approx)),
+            line: n.span.map_or(String::new(), |s| s.line.to_string()),
+        }
+    }
 }

@@ -4,7 +4,7 @@
 
 use std::fmt::Write as _;
 
-use super::{format_limits, headroom_text, num};
+use super::{format_limits, headroom_text, num, value_range};
 use crate::result::{NodeReport, OutputReport, SourceKind};
 use crate::vectors::ErrorHistogram;
 
@@ -393,12 +393,7 @@ pub fn ranges(nodes: &[NodeReport]) -> String {
         let Some((fmin, fmax)) = format_limits(&n.format) else {
             continue;
         };
-        let r = n
-            .overflow
-            .unclamped_range
-            .as_ref()
-            .unwrap_or(&n.actual_range);
-        let (lo, hi) = (r.lo.approx, r.hi.approx);
+        let (lo, hi) = value_range(n);
         // Scale: the union of the format's range and the value range.
         let (a, b) = (fmin.min(lo), fmax.max(hi));
         let sx = |x: f64| label_w + (x - a) / (b - a).max(f64::MIN_POSITIVE) * track_w;

@@ -5,7 +5,7 @@
 
 use std::io::{self, Write};
 
-use super::{Context, SAFETY_CAUTION, headroom_text, line_of, num, overflow_verdict, range_text};
+use super::{Context, NodeRow, SAFETY_CAUTION, num};
 use crate::result::{Report, Severity};
 
 /// ANSI styling that can be switched off.
@@ -120,31 +120,31 @@ pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result
     writeln!(out, "{}", p.bold("Nodes"))?;
     let mut rows = Vec::new();
     for n in &report.nodes {
-        let verdict = overflow_verdict(n);
-        let color: Option<fn(Paint, &str) -> String> = match verdict {
+        let r = NodeRow::new(n);
+        let color: Option<fn(Paint, &str) -> String> = match r.verdict {
             "WRAPS" | "PANICS" | "OVERFLOWS" => Some(Paint::red),
             "SATURATES" => Some(Paint::yellow),
             "no" => Some(Paint::green),
             _ => None,
         };
-        let measured = n
-            .measured
-            .as_ref()
-            .map_or("-".to_owned(), |m| num(m.max_abs.approx));
         rows.push(vec![
-            cell(n.label.clone()),
-            cell(n.format.clone()),
-            cell(range_text(&n.actual_range)),
-            rcell(headroom_text(n)),
+            cell(r.label),
+            cell(r.format),
+            cell(r.range),
+            rcell(r.headroom),
             Cell {
-                text: verdict.to_owned(),
+                text: r.verdict.to_owned(),
                 color,
                 right: false,
             },
-            rcell(num(n.error.max_abs.approx)),
-            rcell(num(n.error.ulps.approx)),
-            rcell(measured),
-            cell(line_of(n.span)),
+            rcell(r.bound),
+            rcell(r.ulps),
+            rcell(r.measured),
+            cell(if r.line.is_empty() {
+                r.line
+            } else {
+                format!("line {}", r.line)
+            }),
         ]);
     }
     table(
