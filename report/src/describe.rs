@@ -120,8 +120,9 @@ impl Description {
         writeln!(out, "{} ({kind})", self.format)?;
         writeln!(
             out,
-            "  width          {} bits = {}{} integer + {} fraction",
+            "  width          {} bit{} = {}{} integer + {} fraction",
             self.width,
+            if self.width == 1 { "" } else { "s" },
             if self.signed { "sign + " } else { "" },
             self.int_bits,
             self.frac_bits

@@ -34,7 +34,6 @@ use rand_chacha::ChaCha8Rng;
 use rayon::prelude::*;
 use rug::{Integer, Rational};
 
-use crate::analysis::decimal_text;
 use crate::exact::{ceil_to_grid, floor_to_grid, pow2, qvalue_to_rational, ulp};
 use crate::model::{Datapath, InputKind, NodeId, Op};
 use crate::result::Report;
@@ -266,10 +265,41 @@ pub fn hex_bits(v: QValue) -> String {
     format!("{bits:0digits$x}")
 }
 
-/// The exact decimal value of `v`.
+/// The exact decimal value of `v`: every fixed-point value has a
+/// terminating decimal expansion (`bits × 2^-F = bits × 5^F / 10^F`), at
+/// most `F` digits after the point.
+///
+/// ```
+/// use qbound::{Format, QValue, Wide};
+/// let v = QValue::new(Format::signed(0, 100)?, Wide::from_i128(-1))?;
+/// let d = qbound_report::vectors::decimal_value(v);
+/// assert!(d.starts_with("-0.000000000000000000000000000000788860905221011805411728565282786"));
+/// assert_eq!(d.len(), "-0.".len() + 100);
+/// # Ok::<(), Box<dyn std::error::Error>>(())
+/// ```
 #[must_use]
 pub fn decimal_value(v: QValue) -> String {
-    decimal_text(&qvalue_to_rational(v))
+    let frac = v.format().frac_bits();
+    let bits = crate::exact::wide_to_integer(v.bits());
+    if frac == 0 {
+        return bits.to_string();
+    }
+    let scaled = Integer::from(bits.abs_ref()) * Integer::from(Integer::u_pow_u(5, frac));
+    let digits = scaled.to_string();
+    let f = frac as usize;
+    let padded = if digits.len() <= f {
+        format!("{}{digits}", "0".repeat(f + 1 - digits.len()))
+    } else {
+        digits
+    };
+    let (int, fr) = padded.split_at(padded.len() - f);
+    let fr = fr.trim_end_matches('0');
+    let sign = if bits < 0 { "-" } else { "" };
+    if fr.is_empty() {
+        format!("{sign}{int}")
+    } else {
+        format!("{sign}{int}.{fr}")
+    }
 }
 
 impl VectorSet {

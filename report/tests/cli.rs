@@ -469,6 +469,7 @@ fn pow2(e: i32) -> Rational {
 enum Mode {
     Floor,
     NearestEven,
+    NearestAway,
 }
 
 /// Round to a multiple of 2^-frac: floor, or nearest with ties to even
@@ -482,6 +483,14 @@ fn round(x: &Rational, frac: i32, mode: Mode) -> Rational {
         Mode::Floor => fl,
         Mode::NearestEven => {
             if rem > half || (rem == half && fl.is_odd()) {
+                fl + 1
+            } else {
+                fl
+            }
+        }
+        // Ties away from zero (IEEE 754 roundTiesToAway).
+        Mode::NearestAway => {
+            if rem > half || (rem == half && !x.is_negative()) {
                 fl + 1
             } else {
                 fl
@@ -699,4 +708,62 @@ fn vectors_refuse_stochastic_rounding() {
         .assert()
         .code(2)
         .stderr(predicate::str::contains("rounds stochastically"));
+}
+
+#[test]
+fn test_vectors_of_wide_formats() {
+    // 121- and 128-bit words, a 124-bit shift result, nearest-away into
+    // Q3.60, an output that reads an input directly (its files get `out_`).
+    let dir = tempfile::tempdir().unwrap();
+    let f = write(
+        dir.path(),
+        "wide.q",
+        "input a : Q0.120 in [-1, 0.5]\ninput b : UQ128.0 in [0, 340282366920938463463374607431768211455]\n\
+         let c = rescale(a >> 3, Q3.60, nearest-away, saturate)\noutput c\noutput b\n",
+    );
+    let out = dir.path().join("v");
+    qbound()
+        .args(["vectors", "-q", "--count", "100", "--out-dir"])
+        .arg(&out)
+        .arg(&f)
+        .assert()
+        .success();
+    let (head, rows) = read_csv(&out.join("vectors.csv"));
+    assert_eq!(
+        head,
+        [
+            "index",
+            "a",
+            "a_hex",
+            "b",
+            "b_hex",
+            "c",
+            "c_hex",
+            "out_b",
+            "out_b_hex"
+        ]
+    );
+    for row in &rows {
+        let a = decimal(&row[1]);
+        let b = decimal(&row[3]);
+        assert_eq!(row[2], hex(&a, 121, 120));
+        assert_eq!(row[4], hex(&b, 128, 0));
+        let c = saturate(
+            round(&(a * pow2(-3)), 60, Mode::NearestAway),
+            &limits(true, 3, 60),
+        );
+        assert_eq!(decimal(&row[5]), c);
+        assert_eq!(row[6], hex(&c, 64, 60));
+        assert_eq!(row[7], row[3]);
+        assert_eq!(row[8], row[4]);
+    }
+    // The corners come first: b's top is all ones.
+    assert!(rows.iter().take(4).any(|r| r[4] == "f".repeat(32)));
+    assert!(
+        std::fs::read_to_string(out.join("out_b.hex"))
+            .unwrap()
+            .lines()
+            .count()
+            == 100
+    );
 }

@@ -120,7 +120,8 @@ pub fn num(x: f64) -> String {
     num_sig(x, 4)
 }
 
-/// A number with `sig` significant digits (at least 1), as [`num`].
+/// A number with `sig` significant digits (at least 1), as [`num`]; plain
+/// decimals reach up to `10^(sig + 2)` (at least 10⁶).
 ///
 /// ```
 /// assert_eq!(qbound_report::render::num_sig(0.999969482421875, 6), "0.999969");
@@ -135,7 +136,8 @@ pub fn num_sig(x: f64, sig: u32) -> String {
         return format!("{x}");
     }
     let a = x.abs();
-    if (1e-3..1e6).contains(&a) {
+    // Plain decimals up to 10^(sig + 2): ADC counts read better as 7800000.
+    if (1e-3..10f64.powi(sig + 2).max(1e6)).contains(&a) {
         let digits = (sig - 1 - a.log10().floor() as i32).max(0) as usize;
         let s = format!("{x:.digits$}");
         if s.contains('.') {
