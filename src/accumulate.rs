@@ -179,7 +179,7 @@ sum_of_products_impl!(Uq, UnsignedLayout);
 ///
 /// ```
 /// use qbound::{rescale_slice, Q, Rounding, Overflow};
-/// let acc = [Q::<9, 30>::from_bits(3 << 29), Q::<9, 30>::from_bits(-(1 << 38))];
+/// let acc = [Q::<9, 30>::from_bits(3 << 28), Q::<9, 30>::from_bits(-(1 << 38))];
 /// let mut out = [Q::<0, 15>::ZERO; 2];
 /// rescale_slice(&acc, &mut out, Rounding::NearestTiesEven, Overflow::Saturate);
 /// assert_eq!(out[0].to_bits(), 0x6000); // 0.75
