@@ -1,0 +1,967 @@
+//! The static analysis: ranges, overflow verdicts, sound worst-case error
+//! bounds (exact rationals, affine forms) and the quantization-noise model
+//! (f64 statistics), for every node of a [`Datapath`].
+//!
+//! # Error model
+//!
+//! For node `n` with ideal value `v` (exact real arithmetic on the exact
+//! inputs and the exact decimal constants) and actual value `ṽ` (bit-exact
+//! fixed point), the error is `e = ṽ - v`. It is kept as an *affine form*
+//!
+//! ```text
+//! e = Σ_s  g_s · ε_s  +  r
+//! ```
+//!
+//! where each `ε_s` is the error one source adds where it enters (a
+//! rounding, a constant's quantization, an input's quantization, a
+//! saturation), known to lie in an exact interval, `g_s` is the
+//! coefficient with which it reaches `n` (an exact interval: a point for
+//! linear datapaths, the operand's range after a multiply), and `r` an
+//! interval for what does not fit the form (products of two errors, folded
+//! small terms). Keeping each source apart makes a sum of many terms tight:
+//! every source is bounded once, by its own worst case, instead of being
+//! widened at every node it passes.
+//!
+//! Propagation: `a ± b` adds the forms; `-a` and `a·2^k` scale by a
+//! point; `a·b` gives `e = v_a·e_b + v_b·e_a + e_a·e_b`: the terms of `e_b`
+//! are scaled by the interval of `v_a` (and the other way round), and
+//! `e_a·e_b` is bounded by the product of the two error intervals into `r`.
+//! A rescale adds its rounding source; a node that can saturate adds a
+//! saturation source `σ = clamp(u) - u`; a node that can wrap adds a wrap
+//! source.
+//!
+//! The reported bound of a node is the intersection of three sound
+//! intervals: the affine form evaluated, `actual range - ideal range`, and
+//! (after saturation) `[min(E.lo, max - v.hi), max(E.hi, min - v.lo)]`.
+//!
+//! # Noise model
+//!
+//! Each source is an independent random variable with the mean and
+//! variance derived in [`rounding_moments`]; inputs are independent and
+//! uniform over their ranges; coefficient and signal moments propagate
+//! with the same rules, assuming independent operands. Saturation and wrap
+//! are outside the model (their moments are taken as 0).
+
+use qbound::{Format, Overflow, Rounding};
+use rug::Rational;
+
+use crate::exact::{Interval, ceil_to_grid, floor_to_grid, format_range, pow2, round_to_grid, ulp};
+use crate::model::{Datapath, InputKind, NodeId, Op};
+use crate::result::SourceKind;
+
+/// Knobs of the analysis.
+#[derive(Clone, Debug)]
+pub struct AnalysisOptions {
+    /// The most sources an affine form keeps as separate terms; beyond
+    /// that the terms with the smallest contribution are folded into the
+    /// remainder interval (still sound, possibly looser). Keeps the
+    /// analysis linear in the number of nodes.
+    pub max_terms: usize,
+}
+
+impl Default for AnalysisOptions {
+    fn default() -> AnalysisOptions {
+        AnalysisOptions { max_terms: 256 }
+    }
+}
+
+/// One error source: where an error enters the datapath.
+#[derive(Clone, Debug)]
+pub struct Source {
+    /// The node where it enters.
+    pub node: NodeId,
+    /// Its kind.
+    pub kind: SourceKind,
+    /// The exact interval of the error it adds.
+    pub eps: Interval,
+    /// Mean (noise model).
+    pub mean: f64,
+    /// Variance (noise model).
+    pub var: f64,
+    /// A label for people.
+    pub label: String,
+}
+
+/// One term `g · ε_s` of an affine form.
+#[derive(Clone, Debug)]
+pub struct Term {
+    /// Source index.
+    pub src: usize,
+    /// Exact coefficient interval.
+    pub coef: Interval,
+    /// Mean of the coefficient (noise model).
+    pub gm: f64,
+    /// Variance of the coefficient (noise model).
+    pub gv: f64,
+}
+
+/// An error as an affine form in the sources plus a remainder interval.
+#[derive(Clone, Debug)]
+pub struct Affine {
+    /// Terms, sorted by source index.
+    pub terms: Vec<Term>,
+    /// Remainder interval.
+    pub rem: Interval,
+    /// Remainder mean (noise model).
+    pub rem_mean: f64,
+    /// Remainder variance (noise model).
+    pub rem_var: f64,
+}
+
+impl Affine {
+    fn zero() -> Affine {
+        Affine {
+            terms: Vec::new(),
+            rem: Interval::zero(),
+            rem_mean: 0.0,
+            rem_var: 0.0,
+        }
+    }
+
+    fn source(src: usize) -> Affine {
+        Affine {
+            terms: vec![Term {
+                src,
+                coef: Interval::point(Rational::from(1)),
+                gm: 1.0,
+                gv: 0.0,
+            }],
+            ..Affine::zero()
+        }
+    }
+
+    /// The exact interval of the form.
+    #[must_use]
+    pub fn interval(&self, sources: &[Source]) -> Interval {
+        let mut acc = self.rem.clone();
+        for t in &self.terms {
+            acc = acc.add(&term_interval(t, sources));
+        }
+        acc
+    }
+
+    /// Predicted mean and variance of the form.
+    #[must_use]
+    pub fn moments(&self, sources: &[Source]) -> (f64, f64) {
+        let mut mean = self.rem_mean;
+        let mut var = self.rem_var;
+        for t in &self.terms {
+            let (m, v) = term_moments(t, &sources[t.src]);
+            mean += m;
+            var += v;
+        }
+        (mean, var)
+    }
+
+    /// `self + sign·other`, merging terms of the same source.
+    fn combine(&self, other: &Affine, negate: bool) -> Affine {
+        let mut terms = Vec::with_capacity(self.terms.len() + other.terms.len());
+        let (mut i, mut j) = (0, 0);
+        let flip = |t: &Term| -> Term {
+            if negate {
+                Term {
+                    src: t.src,
+                    coef: t.coef.neg(),
+                    gm: -t.gm,
+                    gv: t.gv,
+                }
+            } else {
+                t.clone()
+            }
+        };
+        while i < self.terms.len() || j < other.terms.len() {
+            let a = self.terms.get(i);
+            let b = other.terms.get(j);
+            match (a, b) {
+                (Some(x), Some(y)) if x.src == y.src => {
+                    let y = flip(y);
+                    terms.push(Term {
+                        src: x.src,
+                        coef: x.coef.add(&y.coef),
+                        gm: x.gm + y.gm,
+                        gv: x.gv + y.gv,
+                    });
+                    i += 1;
+                    j += 1;
+                }
+                (Some(x), Some(y)) if x.src < y.src => {
+                    terms.push(x.clone());
+                    i += 1;
+                }
+                (Some(x), None) => {
+                    terms.push(x.clone());
+                    i += 1;
+                }
+                (_, Some(y)) => {
+                    terms.push(flip(y));
+                    j += 1;
+                }
+                (None, None) => unreachable!(),
+            }
+        }
+        Affine {
+            terms,
+            rem: if negate {
+                self.rem.sub(&other.rem)
+            } else {
+                self.rem.add(&other.rem)
+            },
+            rem_mean: if negate {
+                self.rem_mean - other.rem_mean
+            } else {
+                self.rem_mean + other.rem_mean
+            },
+            rem_var: self.rem_var + other.rem_var,
+        }
+    }
+
+    /// Multiply by an exact number.
+    fn scale_exact(&self, k: &Rational) -> Affine {
+        let kf = k.to_f64();
+        Affine {
+            terms: self
+                .terms
+                .iter()
+                .map(|t| Term {
+                    src: t.src,
+                    coef: t.coef.scale(k),
+                    gm: t.gm * kf,
+                    gv: t.gv * kf * kf,
+                })
+                .collect(),
+            rem: self.rem.scale(k),
+            rem_mean: self.rem_mean * kf,
+            rem_var: self.rem_var * kf * kf,
+        }
+    }
+
+    /// Multiply by a signal with range `v` and moments `(vm, vv)`.
+    fn scale_signal(&self, v: &Interval, vm: f64, vv: f64) -> Affine {
+        if v.lo == v.hi {
+            return self.scale_exact(&v.lo);
+        }
+        let e2 = vv + vm * vm;
+        let mom = |gm: f64, gv: f64| -> (f64, f64) {
+            let m = vm * gm;
+            (m, (e2 * (gv + gm * gm) - m * m).max(0.0))
+        };
+        Affine {
+            terms: self
+                .terms
+                .iter()
+                .map(|t| {
+                    let (gm, gv) = mom(t.gm, t.gv);
+                    Term {
+                        src: t.src,
+                        coef: t.coef.mul(v),
+                        gm,
+                        gv,
+                    }
+                })
+                .collect(),
+            rem: self.rem.mul(v),
+            rem_mean: vm * self.rem_mean,
+            rem_var: (e2 * (self.rem_var + self.rem_mean * self.rem_mean)
+                - (vm * self.rem_mean).powi(2))
+            .max(0.0),
+        }
+    }
+
+    /// Fold the terms with the smallest contribution into the remainder
+    /// until at most `max` remain.
+    fn cap(&mut self, max: usize, sources: &[Source]) {
+        if self.terms.len() <= max {
+            return;
+        }
+        let mut keyed: Vec<(Rational, Term)> = self
+            .terms
+            .drain(..)
+            .map(|t| (term_interval(&t, sources).max_abs(), t))
+            .collect();
+        keyed.sort_by(|a, b| b.0.cmp(&a.0));
+        // Fold down to half the cap, so that folding (a sort) happens once
+        // per max/2 new sources, not at every node.
+        for (_, t) in keyed.drain(max.div_ceil(2)..) {
+            self.rem = self.rem.add(&term_interval(&t, sources));
+            let (m, v) = term_moments(&t, &sources[t.src]);
+            self.rem_mean += m;
+            self.rem_var += v;
+        }
+        let mut kept: Vec<Term> = keyed.into_iter().map(|(_, t)| t).collect();
+        kept.sort_by_key(|t| t.src);
+        self.terms = kept;
+    }
+}
+
+/// The exact interval `coef × ε_s` of one term.
+#[must_use]
+pub fn term_interval(t: &Term, sources: &[Source]) -> Interval {
+    t.coef.mul(&sources[t.src].eps)
+}
+
+/// Mean and variance of `g·ε` for independent `g` and `ε`:
+/// `E[gε] = E[g]E[ε]`, `Var = E[g²]E[ε²] - (E[g]E[ε])²`.
+fn term_moments(t: &Term, s: &Source) -> (f64, f64) {
+    let m = t.gm * s.mean;
+    let v = (t.gv + t.gm * t.gm) * (s.var + s.mean * s.mean) - m * m;
+    (m, v.max(0.0))
+}
+
+/// The sign of the values being rounded, when the range tells it.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Sign {
+    /// All values `>= 0`.
+    NonNegative,
+    /// All values `<= 0`.
+    NonPositive,
+    /// Either.
+    Both,
+}
+
+impl Sign {
+    fn of(r: &Interval) -> Sign {
+        if !r.lo.is_negative() {
+            Sign::NonNegative
+        } else if !r.hi.is_positive() {
+            Sign::NonPositive
+        } else {
+            Sign::Both
+        }
+    }
+}
+
+/// The exact interval of the error `round(x) - x` when `x` lies on a grid of
+/// step `q0` (use `q0 = 0` for a real-valued `x`) and is rounded to a grid
+/// of step `q = 2^k·q0`, `k >= 1`.
+///
+/// The discarded residue `r = x - floor(x)` takes the values
+/// `0, q0, …, q - q0`. Per mode (the derivation is the case analysis of
+/// `Rounding::rounds_up` over those residues):
+/// - floor: `-r`, so `[-(q - q0), 0]`; ceil: `q - r` or 0, so `[0, q - q0]`;
+/// - toward zero / away from zero: floor for one sign, ceil for the other;
+/// - nearest, ties up: `-r` for `r < q/2`, `q - r` for `r >= q/2`:
+///   `[-(q/2 - q0), q/2]`; ties away: the same for `x >= 0`, mirrored for
+///   `x <= 0`; ties to even: `[-q/2, q/2]` (a tie can go either way);
+/// - to odd and stochastic: either neighbour, so `[-(q - q0), q - q0]`.
+#[must_use]
+pub fn rounding_interval(mode: Rounding, q0: &Rational, q: &Rational, sign: Sign) -> Interval {
+    let full = Rational::from(q - q0);
+    let half = Rational::from(q / 2u32);
+    let half_in = Rational::from(&half - q0);
+    let zero = Rational::new();
+    let down = || Interval::new(Rational::from(-&full), zero.clone());
+    let up = || Interval::new(zero.clone(), full.clone());
+    let both = || Interval::new(Rational::from(-&full), full.clone());
+    match (mode, sign) {
+        (Rounding::Floor, _)
+        | (Rounding::TowardZero, Sign::NonNegative)
+        | (Rounding::AwayFromZero, Sign::NonPositive) => down(),
+        (Rounding::Ceil, _)
+        | (Rounding::TowardZero, Sign::NonPositive)
+        | (Rounding::AwayFromZero, Sign::NonNegative) => up(),
+        (
+            Rounding::TowardZero
+            | Rounding::AwayFromZero
+            | Rounding::ToOdd
+            | Rounding::Stochastic(_),
+            _,
+        ) => both(),
+        (Rounding::NearestTiesUp, _) | (Rounding::NearestTiesAway, Sign::NonNegative) => {
+            Interval::new(Rational::from(-&half_in), half)
+        }
+        (Rounding::NearestTiesAway, Sign::NonPositive) => {
+            Interval::new(Rational::from(-&half), half_in)
+        }
+        (Rounding::NearestTiesAway | Rounding::NearestTiesEven, _) => {
+            Interval::new(Rational::from(-&half), half)
+        }
+    }
+}
+
+/// Mean and variance of the rounding error under the noise model: the
+/// residue `r` uniform over its `N = q/q0` values `0, q0, …, q - q0`
+/// (continuous uniform on `[0, q)` when `q0 = 0`), independent of
+/// everything else; `p_neg` is the probability that the value is negative
+/// (for the sign-dependent modes).
+///
+/// Derivations (sums over `r = j·q0`, `j = 0..N-1`; `M = N/2`):
+/// - floor: `e = -r`, mean `-(q - q0)/2`, `E[e²] = q0²(N-1)(2N-1)/6 =
+///   (q - q0)(2q - q0)/6`, variance `(q² - q0²)/12`.
+/// - ceil: `e = q - r` for `r > 0`, 0 for `r = 0`: the same set of
+///   magnitudes, mean `+(q - q0)/2`, variance `(q² - q0²)/12`.
+/// - toward zero / away from zero: floor or ceil by sign: mean
+///   `±(1 - 2 p_neg)(q - q0)/2`, `E[e²] = (q - q0)(2q - q0)/6`.
+/// - nearest, ties up: errors `-j·q0` for `j < M`, `(N - j)·q0` for
+///   `j >= M`, i.e. the integers `-(M-1)..=M` times `q0`: mean `q0/2`,
+///   `E[e²] = q0²(2M² + 1)/6 = q²/12 + q0²/6`, variance `(q² - q0²)/12`.
+/// - nearest, ties to even: as ties up but the tie `±q/2` is split evenly:
+///   mean 0, variance `q²/12 + q0²/6`.
+/// - nearest, ties away: the tie goes up for positive, down for negative
+///   values: mean `(1 - 2 p_neg)·q0/2`, `E[e²] = q²/12 + q0²/6`.
+/// - to odd: `r = 0` gives 0; otherwise `-r` or `q - r` by the parity of
+///   the quotient (each half the time): mean 0, `E[e²] = (1/N)Σ_{j>=1}
+///   (j²q0²) = (q - q0)(2q - q0)/6`.
+/// - stochastic: up with probability `r/q`: `E[e | r] = 0`,
+///   `E[e² | r] = r(q - r)`; over `r`: `q·E[r] - E[r²] = (q² - q0²)/6`.
+#[must_use]
+pub fn rounding_moments(mode: Rounding, q0: f64, q: f64, p_neg: f64) -> (f64, f64) {
+    let floor_var = (q * q - q0 * q0) / 12.0;
+    let one_sided_e2 = (q - q0) * (2.0 * q - q0) / 6.0;
+    let nearest_e2 = q * q / 12.0 + q0 * q0 / 6.0;
+    let sym = 1.0 - 2.0 * p_neg;
+    let with_mean = |mean: f64, e2: f64| (mean, (e2 - mean * mean).max(0.0));
+    match mode {
+        Rounding::Floor => (-(q - q0) / 2.0, floor_var),
+        Rounding::Ceil => ((q - q0) / 2.0, floor_var),
+        Rounding::TowardZero => with_mean(-sym * (q - q0) / 2.0, one_sided_e2),
+        Rounding::AwayFromZero => with_mean(sym * (q - q0) / 2.0, one_sided_e2),
+        Rounding::NearestTiesUp => (q0 / 2.0, floor_var),
+        Rounding::NearestTiesEven => (0.0, nearest_e2),
+        Rounding::NearestTiesAway => with_mean(sym * q0 / 2.0, nearest_e2),
+        Rounding::ToOdd => (0.0, one_sided_e2),
+        Rounding::Stochastic(_) => (0.0, (q * q - q0 * q0) / 6.0),
+    }
+}
+
+/// What the analysis found about overflow at a node.
+#[derive(Clone, Debug, Default)]
+pub struct OverflowInfo {
+    /// The overflow mode acting at the node, if any.
+    pub mode: Option<Overflow>,
+    /// Whether the value can leave the format.
+    pub can_overflow: bool,
+    /// The range before the overflow mode acts.
+    pub unclamped: Option<Interval>,
+    /// The largest saturation error, if it can saturate.
+    pub saturation_error: Option<Rational>,
+}
+
+/// The analysis of one node.
+#[derive(Clone, Debug)]
+pub struct NodeAnalysis {
+    /// Range of the ideal value.
+    pub ideal: Interval,
+    /// Range of the actual value.
+    pub actual: Interval,
+    /// Sound bound: the error lies in this interval.
+    pub error: Interval,
+    /// The error's affine form.
+    pub form: Affine,
+    /// Predicted mean of the ideal value.
+    pub signal_mean: f64,
+    /// Predicted variance of the ideal value.
+    pub signal_var: f64,
+    /// Predicted mean of the error.
+    pub err_mean: f64,
+    /// Predicted variance of the error.
+    pub err_var: f64,
+    /// Overflow verdict.
+    pub overflow: OverflowInfo,
+    /// The rounding source this node added, if any.
+    pub rounding_source: Option<usize>,
+}
+
+/// The analysis of a datapath.
+#[derive(Clone, Debug)]
+pub struct Analysis {
+    /// Per node, in order.
+    pub nodes: Vec<NodeAnalysis>,
+    /// The error sources.
+    pub sources: Vec<Source>,
+}
+
+/// Analyse `path` with default options.
+///
+/// ```
+/// let path = qbound_report::parse("input x : Q3.4 in [-2, 2]\nlet y = rescale(x, Q3.2, floor, wrap)\noutput y")?;
+/// let a = qbound_report::analyze(&path);
+/// // Floor from step 1/16 to step 1/4: error in [-(1/4 - 1/16), 0].
+/// assert_eq!(a.nodes[1].error.lo, rug::Rational::from((-3, 16)));
+/// # Ok::<(), qbound_report::ParseError>(())
+/// ```
+#[must_use]
+pub fn analyze(path: &Datapath) -> Analysis {
+    analyze_with(path, &AnalysisOptions::default())
+}
+
+/// Analyse `path`.
+#[must_use]
+pub fn analyze_with(path: &Datapath, opts: &AnalysisOptions) -> Analysis {
+    let mut a = Analysis {
+        nodes: Vec::with_capacity(path.nodes().len()),
+        sources: Vec::new(),
+    };
+    for i in 0..path.nodes().len() {
+        let n = node(path, &mut a, i, opts);
+        a.nodes.push(n);
+    }
+    a
+}
+
+fn fraction_negative(r: &Interval) -> f64 {
+    if !r.lo.is_negative() {
+        0.0
+    } else if !r.hi.is_positive() {
+        1.0
+    } else {
+        let lo = r.lo.to_f64();
+        let hi = r.hi.to_f64();
+        (-lo / (hi - lo)).clamp(0.0, 1.0)
+    }
+}
+
+fn range_hull(ideal: &Interval, actual: &Interval) -> Interval {
+    actual.sub(ideal)
+}
+
+/// The overflow step of a rescale (or a quantized input): `u` is the
+/// range of the rounded value before the overflow mode acts.
+struct Clamp {
+    actual: Interval,
+    source: Option<(SourceKind, Interval)>,
+    /// The sound interval of the error after clamping, from the error
+    /// before it: `[min(E.lo, max - v.hi), max(E.hi, min - v.lo)]`.
+    collapse: Option<Interval>,
+    info: OverflowInfo,
+}
+
+fn clamp_step(
+    f: Format,
+    mode: Overflow,
+    u: &Interval,
+    ideal: &Interval,
+    pre_err: &Interval,
+) -> Clamp {
+    let fr = format_range(f);
+    let lo_lim = if mode == Overflow::SaturateSymmetric && f.is_signed() {
+        Rational::from(-&fr.hi)
+    } else {
+        fr.lo.clone()
+    };
+    let limits = Interval::new(lo_lim, fr.hi.clone());
+    let above = u.hi > limits.hi;
+    let below = u.lo < limits.lo;
+    // Symmetric saturation can also act on a value that fits the format
+    // (the most negative one): `below` covers it since limits.lo = -max.
+    if !above && !below {
+        return Clamp {
+            actual: u.clone(),
+            source: None,
+            collapse: None,
+            info: OverflowInfo {
+                mode: Some(mode),
+                can_overflow: false,
+                unclamped: Some(u.clone()),
+                saturation_error: None,
+            },
+        };
+    }
+    let zero = Rational::new();
+    let info = |sat: Option<Rational>| OverflowInfo {
+        mode: Some(mode),
+        can_overflow: true,
+        unclamped: Some(u.clone()),
+        saturation_error: sat,
+    };
+    if mode == Overflow::Wrap {
+        // The wrapped value lies in the format, the unwrapped one in u:
+        // their difference (a multiple of 2^W ulp) is in [min - u.hi, max - u.lo].
+        let w = Interval::new(
+            Rational::from(&fr.lo - &u.hi),
+            Rational::from(&fr.hi - &u.lo),
+        );
+        return Clamp {
+            actual: fr,
+            source: Some((SourceKind::Wrap, w)),
+            collapse: None,
+            info: info(None),
+        };
+    }
+    // Saturate, symmetric saturate, and panic (analysed as saturating: the
+    // run that would panic is reported as an error, the others are bounded).
+    // σ = clamp(u) - u: in [max - u.hi, 0] above, [0, min - u.lo] below.
+    let s_lo = if above {
+        Rational::from(&limits.hi - &u.hi)
+    } else {
+        zero.clone()
+    };
+    let s_hi = if below {
+        Rational::from(&limits.lo - &u.lo)
+    } else {
+        zero.clone()
+    };
+    let sat = if s_hi > Rational::from(-&s_lo) {
+        s_hi.clone()
+    } else {
+        Rational::from(-&s_lo)
+    };
+    let mut c_lo = pre_err.lo.clone();
+    let mut c_hi = pre_err.hi.clone();
+    if above {
+        let m = Rational::from(&limits.hi - &ideal.hi);
+        if m < c_lo {
+            c_lo = m;
+        }
+    }
+    if below {
+        let m = Rational::from(&limits.lo - &ideal.lo);
+        if m > c_hi {
+            c_hi = m;
+        }
+    }
+    let actual = u.intersect(&limits).unwrap_or_else(|| {
+        if u.lo > limits.hi {
+            Interval::point(limits.hi.clone())
+        } else {
+            Interval::point(limits.lo.clone())
+        }
+    });
+    Clamp {
+        actual,
+        source: Some((SourceKind::Saturation, Interval::new(s_lo, s_hi))),
+        collapse: Some(Interval::new(c_lo, c_hi)),
+        info: info(Some(sat)),
+    }
+}
+
+fn add_source(
+    a: &mut Analysis,
+    node: usize,
+    kind: SourceKind,
+    eps: Interval,
+    mean: f64,
+    var: f64,
+    label: String,
+) -> usize {
+    a.sources.push(Source {
+        node: NodeId(node),
+        kind,
+        eps,
+        mean,
+        var,
+        label,
+    });
+    a.sources.len() - 1
+}
+
+#[allow(clippy::too_many_lines)]
+fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> NodeAnalysis {
+    let nd = &path.nodes()[i];
+    let f = nd.format;
+    let label = path.label(NodeId(i));
+    let fr = format_range(f);
+    let mut overflow = OverflowInfo::default();
+    let mut rounding_source = None;
+    let mut collapse: Option<Interval> = None;
+    let (ideal, actual, mut form, sm, sv) = match &nd.op {
+        Op::Input { lo, hi, kind } => match kind {
+            InputKind::Exact => {
+                let r = Interval::new(
+                    ceil_to_grid(lo, f.frac_bits()),
+                    floor_to_grid(hi, f.frac_bits()),
+                );
+                // Discrete uniform over the N grid points: variance (N² - 1)q²/12.
+                let q = ulp(f).to_f64();
+                let n = (Rational::from(&r.hi - &r.lo) / ulp(f)).to_f64() + 1.0;
+                let mean = (r.lo.to_f64() + r.hi.to_f64()) / 2.0;
+                (
+                    r.clone(),
+                    r,
+                    Affine::zero(),
+                    mean,
+                    (n * n - 1.0) * q * q / 12.0,
+                )
+            }
+            InputKind::Quantized(mode) => {
+                let ideal = Interval::new(lo.clone(), hi.clone());
+                let (ulo, uhi) = rounded_range(&ideal, f.frac_bits(), *mode);
+                let u = Interval::new(ulo, uhi);
+                let q = ulp(f);
+                let eps = rounding_interval(*mode, &Rational::new(), &q, Sign::of(&ideal));
+                let (m, v) = rounding_moments(*mode, 0.0, q.to_f64(), fraction_negative(&ideal));
+                let s = add_source(
+                    a,
+                    i,
+                    SourceKind::InputQuantization,
+                    eps,
+                    m,
+                    v,
+                    format!("quantization of input {label} ({} into {f})", mode.name()),
+                );
+                rounding_source = Some(s);
+                let mut form = Affine::source(s);
+                let pre_err = form.interval(&a.sources);
+                let c = clamp_step(f, Overflow::Saturate, &u, &ideal, &pre_err);
+                if let Some((kind, eps)) = c.source {
+                    let s2 = add_source(
+                        a,
+                        i,
+                        kind,
+                        eps,
+                        0.0,
+                        0.0,
+                        format!("saturation of input {label}"),
+                    );
+                    form = form.combine(&Affine::source(s2), false);
+                }
+                overflow = c.info;
+                collapse = c.collapse;
+                let mean = (lo.to_f64() + hi.to_f64()) / 2.0;
+                let w = (hi.to_f64() - lo.to_f64()).abs();
+                (ideal, c.actual, form, mean, w * w / 12.0)
+            }
+        },
+        Op::Const { value, rounding } => {
+            let q = round_to_grid(value, f.frac_bits(), *rounding);
+            let d = Rational::from(&q - value);
+            let form = if d.is_zero() {
+                Affine::zero()
+            } else {
+                let df = d.to_f64();
+                let s = add_source(
+                    a,
+                    i,
+                    SourceKind::Constant,
+                    Interval::point(d.clone()),
+                    df,
+                    0.0,
+                    format!("constant {label} = {} in {f}", decimal_text(value)),
+                );
+                Affine::source(s)
+            };
+            (
+                Interval::point(value.clone()),
+                Interval::point(q),
+                form,
+                value.to_f64(),
+                0.0,
+            )
+        }
+        Op::Add(x, y) | Op::Sub(x, y) => {
+            let (nx, ny) = (&a.nodes[x.0], &a.nodes[y.0]);
+            let sub = matches!(nd.op, Op::Sub(..));
+            let (ideal, actual) = if sub {
+                (nx.ideal.sub(&ny.ideal), nx.actual.sub(&ny.actual))
+            } else {
+                (nx.ideal.add(&ny.ideal), nx.actual.add(&ny.actual))
+            };
+            let m = if sub {
+                nx.signal_mean - ny.signal_mean
+            } else {
+                nx.signal_mean + ny.signal_mean
+            };
+            (
+                ideal,
+                actual,
+                nx.form.combine(&ny.form, sub),
+                m,
+                nx.signal_var + ny.signal_var,
+            )
+        }
+        Op::Neg(x) => {
+            let nx = &a.nodes[x.0];
+            (
+                nx.ideal.neg(),
+                nx.actual.neg(),
+                nx.form.scale_exact(&Rational::from(-1)),
+                -nx.signal_mean,
+                nx.signal_var,
+            )
+        }
+        Op::Shift(x, k) => {
+            let nx = &a.nodes[x.0];
+            let p = pow2(i64::from(*k));
+            let pf = p.to_f64();
+            (
+                nx.ideal.scale(&p),
+                nx.actual.scale(&p),
+                nx.form.scale_exact(&p),
+                nx.signal_mean * pf,
+                nx.signal_var * pf * pf,
+            )
+        }
+        Op::Mul(x, y) => {
+            let (nx, ny) = (&a.nodes[x.0], &a.nodes[y.0]);
+            let (ideal, actual) = if x == y {
+                (square(&nx.ideal), square(&nx.actual))
+            } else {
+                (nx.ideal.mul(&ny.ideal), nx.actual.mul(&ny.actual))
+            };
+            // e = v_x·e_y + v_y·e_x + e_x·e_y
+            let mut form = ny
+                .form
+                .scale_signal(&nx.ideal, nx.signal_mean, nx.signal_var)
+                .combine(
+                    &nx.form
+                        .scale_signal(&ny.ideal, ny.signal_mean, ny.signal_var),
+                    false,
+                );
+            if (!nx.form.terms.is_empty() || !nx.form.rem.is_zero())
+                && (!ny.form.terms.is_empty() || !ny.form.rem.is_zero())
+            {
+                form.rem = form.rem.add(&nx.error.mul(&ny.error));
+                form.rem_mean += nx.err_mean * ny.err_mean;
+                let e2 = (nx.err_var + nx.err_mean.powi(2)) * (ny.err_var + ny.err_mean.powi(2));
+                form.rem_var += (e2 - (nx.err_mean * ny.err_mean).powi(2)).max(0.0);
+            }
+            let ex2 = nx.signal_var + nx.signal_mean.powi(2);
+            let ey2 = ny.signal_var + ny.signal_mean.powi(2);
+            let m = nx.signal_mean * ny.signal_mean;
+            (ideal, actual, form, m, (ex2 * ey2 - m * m).max(0.0))
+        }
+        Op::Rescale {
+            src,
+            rounding,
+            overflow: mode,
+        } => {
+            let nx = &a.nodes[src.0];
+            let sf = path.node(*src).format;
+            let mut form = nx.form.clone();
+            let (ulo, uhi) = if sf.frac_bits() > f.frac_bits() {
+                rounded_range(&nx.actual, f.frac_bits(), *rounding)
+            } else {
+                (nx.actual.lo.clone(), nx.actual.hi.clone())
+            };
+            let u = Interval::new(ulo, uhi);
+            if sf.frac_bits() > f.frac_bits() {
+                let q0 = ulp(sf);
+                let q = ulp(f);
+                let eps = rounding_interval(*rounding, &q0, &q, Sign::of(&nx.actual));
+                let (m, v) = rounding_moments(
+                    *rounding,
+                    q0.to_f64(),
+                    q.to_f64(),
+                    fraction_negative(&nx.actual),
+                );
+                let s = add_source(
+                    a,
+                    i,
+                    SourceKind::Rounding,
+                    eps,
+                    m,
+                    v,
+                    format!(
+                        "rounding at {label} ({}, {} bits dropped)",
+                        rounding.name(),
+                        sf.frac_bits() - f.frac_bits()
+                    ),
+                );
+                rounding_source = Some(s);
+                form = form.combine(&Affine::source(s), false);
+            }
+            let nx = &a.nodes[src.0];
+            let pre_err = form
+                .interval(&a.sources)
+                .intersect(&u.sub(&nx.ideal))
+                .unwrap_or_else(|| form.interval(&a.sources));
+            let c = clamp_step(f, *mode, &u, &nx.ideal, &pre_err);
+            if let Some((kind, eps)) = c.source {
+                let what = if kind == SourceKind::Wrap {
+                    "wrap-around"
+                } else {
+                    "saturation"
+                };
+                let s2 = add_source(
+                    a,
+                    i,
+                    kind,
+                    eps,
+                    0.0,
+                    0.0,
+                    format!("{what} at {label} ({})", mode.name()),
+                );
+                form = form.combine(&Affine::source(s2), false);
+            }
+            overflow = c.info;
+            collapse = c.collapse;
+            let nx = &a.nodes[src.0];
+            (
+                nx.ideal.clone(),
+                c.actual,
+                form,
+                nx.signal_mean,
+                nx.signal_var,
+            )
+        }
+    };
+    form.cap(opts.max_terms, &a.sources);
+    let actual = actual.intersect(&fr).unwrap_or(fr);
+    let mut error = form.interval(&a.sources);
+    for extra in [Some(range_hull(&ideal, &actual)), collapse]
+        .into_iter()
+        .flatten()
+    {
+        if let Some(e) = error.intersect(&extra) {
+            error = e;
+        }
+    }
+    let (err_mean, err_var) = form.moments(&a.sources);
+    NodeAnalysis {
+        ideal,
+        actual,
+        error,
+        form,
+        signal_mean: sm,
+        signal_var: sv,
+        err_mean,
+        err_var,
+        overflow,
+        rounding_source,
+    }
+}
+
+fn square(r: &Interval) -> Interval {
+    let a = Rational::from(&r.lo * &r.lo);
+    let b = Rational::from(&r.hi * &r.hi);
+    if !r.lo.is_negative() {
+        Interval::new(a, b)
+    } else if !r.hi.is_positive() {
+        Interval::new(b, a)
+    } else {
+        Interval::new(Rational::new(), if a > b { a } else { b })
+    }
+}
+
+/// The range of `round(x)` for `x` in `r`: rounding is monotone, so the ends
+/// round to the ends (the stochastic mode may go either way: floor the low
+/// end, ceil the high end).
+fn rounded_range(r: &Interval, frac: u32, mode: Rounding) -> (Rational, Rational) {
+    match mode {
+        Rounding::Stochastic(_) => (floor_to_grid(&r.lo, frac), ceil_to_grid(&r.hi, frac)),
+        m => (round_to_grid(&r.lo, frac, m), round_to_grid(&r.hi, frac, m)),
+    }
+}
+
+/// A rational as a short decimal if it has one (terminating, up to 40
+/// digits), else as `p/q`.
+#[must_use]
+pub fn decimal_text(x: &Rational) -> String {
+    let den = x.denom().clone();
+    let mut d = den.clone();
+    let (mut twos, mut fives) = (0u32, 0u32);
+    while d.is_divisible_u(2) {
+        d /= 2u32;
+        twos += 1;
+    }
+    while d.is_divisible_u(5) {
+        d /= 5u32;
+        fives += 1;
+    }
+    let digits = twos.max(fives);
+    if d != 1 || digits > 40 {
+        return x.to_string();
+    }
+    let scaled = Rational::from(x * rug::Integer::from(rug::Integer::u_pow_u(10, digits)));
+    let n = scaled.numer().clone();
+    let neg = n.is_negative();
+    let s = n.abs().to_string();
+    let digits = digits as usize;
+    let body = if digits == 0 {
+        s
+    } else if s.len() > digits {
+        format!("{}.{}", &s[..s.len() - digits], &s[s.len() - digits..])
+    } else {
+        format!("0.{}{}", "0".repeat(digits - s.len()), s)
+    };
+    if neg { format!("-{body}") } else { body }
+}
