@@ -62,6 +62,7 @@
 #![deny(missing_docs)]
 #![deny(unconditional_recursion)]
 
+mod convert;
 mod format;
 mod kernel;
 pub mod layout;
@@ -69,14 +70,17 @@ mod ops;
 mod overflow;
 mod rounding;
 mod storage;
+mod text;
 mod typed;
 mod value;
 mod width;
 
+pub use convert::{FloatError, PrimitiveInt};
 pub use format::{Format, FormatError, MAX_WIDTH};
 pub use overflow::{Overflow, RangeError, Side};
 pub use rounding::Rounding;
 pub use storage::{Storage, Wide};
+pub use text::{ParseError, ParseErrorKind};
 pub use typed::{QType, Sq, Uq, WidensTo};
 pub use value::QValue;
 

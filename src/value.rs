@@ -25,7 +25,7 @@ use crate::storage::{Storage, Wide};
 /// assert_eq!(r, p);
 /// # Ok::<(), Box<dyn core::error::Error>>(())
 /// ```
-#[derive(Clone, Copy, Debug)]
+#[derive(Clone, Copy)]
 pub struct QValue {
     format: Format,
     bits: Wide,
