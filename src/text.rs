@@ -284,7 +284,7 @@ const fn scan(s: &[u8], radix: Option<u32>) -> Result<Scan, ParseError> {
 }
 
 /// Set the bit of weight `2^p` (in steps of the target) in `s`.
-const fn push_bit(s: &mut Scaled, p: i64) {
+pub(crate) const fn push_bit(s: &mut Scaled, p: i64) {
     if p >= 128 {
         s.over = true;
     } else if p >= 0 {
