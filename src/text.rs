@@ -173,7 +173,7 @@ const fn digit_value(c: u8, radix: u32) -> Option<u32> {
     if v < radix { Some(v) } else { None }
 }
 
-const EXP_LIMIT: i64 = 1 << 60;
+const EXP_LIMIT: i64 = 1 << 58;
 
 const fn scan(s: &[u8], radix: Option<u32>) -> Result<Scan, ParseError> {
     if s.is_empty() {

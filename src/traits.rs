@@ -243,6 +243,57 @@ macro_rules! wrapper_fmt {
 wrapper_fmt!(Wrapped: Display, Debug, LowerHex, UpperHex, Octal, Binary);
 wrapper_fmt!(Saturated: Display, Debug, LowerHex, UpperHex, Octal, Binary);
 
+macro_rules! wrapper_conversions {
+    ($($w:ident),*) => {$(
+        impl<T: FromPrimitive> FromPrimitive for $w<T> {
+            fn from_i64(n: i64) -> Option<Self> {
+                T::from_i64(n).map($w)
+            }
+            fn from_u64(n: u64) -> Option<Self> {
+                T::from_u64(n).map($w)
+            }
+            fn from_i128(n: i128) -> Option<Self> {
+                T::from_i128(n).map($w)
+            }
+            fn from_u128(n: u128) -> Option<Self> {
+                T::from_u128(n).map($w)
+            }
+            fn from_f64(x: f64) -> Option<Self> {
+                T::from_f64(x).map($w)
+            }
+            fn from_f32(x: f32) -> Option<Self> {
+                T::from_f32(x).map($w)
+            }
+        }
+        impl<T: ToPrimitive> ToPrimitive for $w<T> {
+            fn to_i64(&self) -> Option<i64> {
+                self.0.to_i64()
+            }
+            fn to_u64(&self) -> Option<u64> {
+                self.0.to_u64()
+            }
+            fn to_i128(&self) -> Option<i128> {
+                self.0.to_i128()
+            }
+            fn to_u128(&self) -> Option<u128> {
+                self.0.to_u128()
+            }
+            fn to_f64(&self) -> Option<f64> {
+                self.0.to_f64()
+            }
+            fn to_f32(&self) -> Option<f32> {
+                self.0.to_f32()
+            }
+        }
+        impl<T: NumCast> NumCast for $w<T> {
+            fn from<N: ToPrimitive>(n: N) -> Option<Self> {
+                <T as NumCast>::from(n).map($w)
+            }
+        }
+    )*};
+}
+wrapper_conversions!(Wrapped, Saturated);
+
 macro_rules! wrapper_ops {
     ($w:ident, $name:ident, $layout:ident, $ovf:expr, $add:ident, $sub:ident, $mul:ident, $neg:ident) => {
         impl<I: $layout<F>, F: Unsigned> Add for $w<$name<I, F>> {
