@@ -100,7 +100,11 @@ impl Scaled {
             } else {
                 let d = k - 64; // bits of r below the 64-bit window
                 s.frac64 = if d >= 128 { 0 } else { (r >> d) as u64 };
-                s.sticky = if d >= 128 { r != 0 } else { r & ((1u128 << d) - 1) != 0 };
+                s.sticky = if d >= 128 {
+                    r != 0
+                } else {
+                    r & ((1u128 << d) - 1) != 0
+                };
             }
         }
         s
@@ -110,7 +114,13 @@ impl Scaled {
 /// Whether rounding the magnitude `mag + frac` (the value's sign is `neg`)
 /// goes up to `mag + 1`. Mirrors the modes onto magnitudes: rounding a
 /// negative value toward −∞ raises its magnitude.
-const fn magnitude_rounds_up(mode: Rounding, neg: bool, mag_odd: bool, frac64: u64, sticky: bool) -> bool {
+const fn magnitude_rounds_up(
+    mode: Rounding,
+    neg: bool,
+    mag_odd: bool,
+    frac64: u64,
+    sticky: bool,
+) -> bool {
     use core::cmp::Ordering;
     const HALF: u64 = 1 << 63;
     if frac64 == 0 && !sticky {
@@ -231,8 +241,12 @@ impl fmt::Display for FloatError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
             FloatError::NaN => f.write_str("NaN has no fixed-point value"),
-            FloatError::Infinite { negative: false } => f.write_str("+infinity has no fixed-point value"),
-            FloatError::Infinite { negative: true } => f.write_str("-infinity has no fixed-point value"),
+            FloatError::Infinite { negative: false } => {
+                f.write_str("+infinity has no fixed-point value")
+            }
+            FloatError::Infinite { negative: true } => {
+                f.write_str("-infinity has no fixed-point value")
+            }
             FloatError::OutOfRange(e) => fmt::Display::fmt(e, f),
         }
     }
@@ -316,7 +330,11 @@ impl FloatShape {
         } else {
             let k = shift as u32;
             sig = if k >= 128 { 0 } else { mag >> k };
-            let rem = if k >= 128 { mag } else { mag & ((1u128 << k) - 1) };
+            let rem = if k >= 128 {
+                mag
+            } else {
+                mag & ((1u128 << k) - 1)
+            };
             let half = if k > 128 { 0 } else { 1u128 << (k - 1) };
             let up = if k > 128 {
                 false
@@ -338,14 +356,18 @@ impl FloatShape {
         }
         let field = ulp + (p - 1) + bias;
         if field >= (1 << self.exp_bits) - 1 {
-            return sign | ((((1u64 << self.exp_bits) - 1)) << (p - 1));
+            return sign | (((1u64 << self.exp_bits) - 1) << (p - 1));
         }
         sign | ((field as u64) << (p - 1)) | ((sig - hidden) as u64)
     }
 }
 
 /// The exact value of a float scaled to `frac` fraction bits.
-pub(crate) const fn scaled_from_float(shape: FloatShape, bits: u64, frac: u32) -> Result<Scaled, FloatError> {
+pub(crate) const fn scaled_from_float(
+    shape: FloatShape,
+    bits: u64,
+    frac: u32,
+) -> Result<Scaled, FloatError> {
     match shape.decompose(bits) {
         Ok((neg, m, e)) => Ok(Scaled::from_dyadic(neg, m, e, frac)),
         Err(e) => Err(e),
@@ -778,12 +800,21 @@ impl QValue {
 
     /// A scaled exact value rounded into `format`.
     #[track_caller]
-    pub(crate) fn from_scaled(s: Scaled, format: Format, rounding: Rounding, overflow: Overflow) -> QValue {
+    pub(crate) fn from_scaled(
+        s: Scaled,
+        format: Format,
+        rounding: Rounding,
+        overflow: Overflow,
+    ) -> QValue {
         with_storage!(format, D => QValue::from_fitted(fitted::<D>(s, rounding, format), format, overflow))
     }
 
     /// A scaled exact value rounded into `format`, or where it fell.
-    pub(crate) fn try_from_scaled(s: Scaled, format: Format, rounding: Rounding) -> Result<QValue, RangeError> {
+    pub(crate) fn try_from_scaled(
+        s: Scaled,
+        format: Format,
+        rounding: Rounding,
+    ) -> Result<QValue, RangeError> {
         with_storage!(format, D => QValue::from_fitted_checked(fitted::<D>(s, rounding, format), format))
     }
 
@@ -865,7 +896,12 @@ impl QValue {
     /// # Ok::<(), Box<dyn core::error::Error>>(())
     /// ```
     #[track_caller]
-    pub fn from_f64(format: Format, x: f64, rounding: Rounding, overflow: Overflow) -> Result<QValue, FloatError> {
+    pub fn from_f64(
+        format: Format,
+        x: f64,
+        rounding: Rounding,
+        overflow: Overflow,
+    ) -> Result<QValue, FloatError> {
         let s = scaled_from_float(BINARY64, x.to_bits(), format.frac_bits())?;
         Ok(QValue::from_scaled(s, format, rounding, overflow))
     }
@@ -892,7 +928,12 @@ impl QValue {
     /// # Ok::<(), Box<dyn core::error::Error>>(())
     /// ```
     #[track_caller]
-    pub fn from_f32(format: Format, x: f32, rounding: Rounding, overflow: Overflow) -> Result<QValue, FloatError> {
+    pub fn from_f32(
+        format: Format,
+        x: f32,
+        rounding: Rounding,
+        overflow: Overflow,
+    ) -> Result<QValue, FloatError> {
         let s = scaled_from_float(BINARY32, x.to_bits() as u64, format.frac_bits())?;
         Ok(QValue::from_scaled(s, format, rounding, overflow))
     }
@@ -959,7 +1000,10 @@ mod tests {
     fn compose_matches_casts() {
         for &m in &[1u128, 3, (1 << 53) + 1, (1 << 54) + 3, u128::MAX, 1 << 127] {
             assert_eq!(f64::from_bits(BINARY64.compose(false, m, 0)), m as f64);
-            assert_eq!(f32::from_bits(BINARY32.compose(false, m, 0) as u32), m as f32);
+            assert_eq!(
+                f32::from_bits(BINARY32.compose(false, m, 0) as u32),
+                m as f32
+            );
         }
     }
 }

@@ -18,7 +18,7 @@
 
 use typenum::Unsigned;
 
-use crate::convert::{fit, scaled_from_float, wide_of, FloatError, BINARY64};
+use crate::convert::{BINARY64, FloatError, fit, scaled_from_float, wide_of};
 use crate::format::Format;
 use crate::layout::{SignedLayout, UnsignedLayout};
 use crate::rounding::Rounding;

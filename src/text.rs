@@ -39,7 +39,7 @@ use core::str::FromStr;
 
 use typenum::Unsigned;
 
-use crate::convert::{sign_magnitude, Scaled};
+use crate::convert::{Scaled, sign_magnitude};
 use crate::format::Format;
 use crate::layout::{SignedLayout, UnsignedLayout};
 use crate::overflow::{Overflow, RangeError};
@@ -235,7 +235,10 @@ const fn scan(s: &[u8], radix: Option<u32>) -> Result<Scan, ParseError> {
         int_digits = digits;
     }
     if digits == 0 {
-        return Err(ParseError::new(ParseErrorKind::NoDigits, if i < s.len() { i } else { s.len() }));
+        return Err(ParseError::new(
+            ParseErrorKind::NoDigits,
+            if i < s.len() { i } else { s.len() },
+        ));
     }
     let mut exp = 0i64;
     if i < s.len() {
@@ -463,7 +466,11 @@ const fn scaled_decimal(s: &[u8], sc: Scan, frac: u32) -> Scaled {
 }
 
 /// The exact value of a number's text scaled to `frac` fraction bits.
-pub(crate) const fn parse_scaled(s: &[u8], radix: Option<u32>, frac: u32) -> Result<Scaled, ParseError> {
+pub(crate) const fn parse_scaled(
+    s: &[u8],
+    radix: Option<u32>,
+    frac: u32,
+) -> Result<Scaled, ParseError> {
     let sc = match scan(s, radix) {
         Ok(sc) => sc,
         Err(e) => return Err(e),
@@ -642,7 +649,11 @@ fn bits_at(low: u128, lo_bit: i32, n: u32) -> u32 {
         ((low >> lo_bit) as u32) & mask
     } else {
         let s = (-lo_bit) as u32;
-        if s >= n { 0 } else { ((low << s) as u32) & mask }
+        if s >= n {
+            0
+        } else {
+            ((low << s) as u32) & mask
+        }
     }
 }
 
@@ -943,7 +954,12 @@ impl QValue {
     /// # Ok::<(), Box<dyn core::error::Error>>(())
     /// ```
     #[track_caller]
-    pub fn parse(format: Format, s: &str, rounding: Rounding, overflow: Overflow) -> Result<QValue, ParseError> {
+    pub fn parse(
+        format: Format,
+        s: &str,
+        rounding: Rounding,
+        overflow: Overflow,
+    ) -> Result<QValue, ParseError> {
         let sc = parse_scaled(s.as_bytes(), None, format.frac_bits())?;
         Ok(QValue::from_scaled(sc, format, rounding, overflow))
     }
@@ -959,7 +975,8 @@ impl QValue {
     /// ```
     pub fn try_parse(format: Format, s: &str, rounding: Rounding) -> Result<QValue, ParseError> {
         let sc = parse_scaled(s.as_bytes(), None, format.frac_bits())?;
-        QValue::try_from_scaled(sc, format, rounding).map_err(|e| ParseError::new(ParseErrorKind::OutOfRange(e), 0))
+        QValue::try_from_scaled(sc, format, rounding)
+            .map_err(|e| ParseError::new(ParseErrorKind::OutOfRange(e), 0))
     }
 }
 

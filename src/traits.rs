@@ -30,9 +30,9 @@
 //! ```
 //! use qbound::{Q, Saturated};
 //! use num_traits::Zero;
-//! // An invented sensor's samples, summed in a generic helper.
+//! // Readings of an invented strain gauge, summed by a generic helper.
 //! fn total<T: Zero + Copy + core::iter::Sum>(xs: &[T]) -> T { xs.iter().copied().sum() }
-//! let xs = [0.75, 0.5, -0.125].map(|x| Saturated("0".parse::<Q<1, 14>>().unwrap()) + Saturated(x.to_string().parse().unwrap()));
+//! let xs: Vec<Saturated<Q<1, 14>>> = ["0.75", "0.5", "-0.125"].iter().map(|s| s.parse().unwrap()).collect();
 //! assert_eq!(total(&xs).0.to_string(), "1.125");
 //! let big = [Saturated(Q::<1, 14>::MAX); 3];
 //! assert_eq!(total(&big).0, Q::<1, 14>::MAX); // clamps instead of wrapping
@@ -40,18 +40,22 @@
 
 use core::fmt;
 use core::iter::{Product, Sum};
-use core::ops::{Add, AddAssign, Div, DivAssign, Mul, MulAssign, Neg, Rem, RemAssign, Sub, SubAssign};
+use core::ops::{
+    Add, AddAssign, Div, DivAssign, Mul, MulAssign, Neg, Rem, RemAssign, Sub, SubAssign,
+};
 use core::str::FromStr;
 
-use num_traits::{Bounded, CheckedNeg, FromPrimitive, Num, NumCast, One, ToPrimitive, WrappingNeg, Zero};
-use typenum::{IsGreaterOrEqual, Unsigned, B1, U1};
+use num_traits::{
+    Bounded, CheckedNeg, FromPrimitive, Num, NumCast, One, ToPrimitive, WrappingNeg, Zero,
+};
+use typenum::{B1, IsGreaterOrEqual, U1, Unsigned};
 
-use crate::convert::{Scaled, BINARY64};
+use crate::convert::{BINARY64, Scaled};
 use crate::layout::{SignedLayout, UnsignedLayout};
 use crate::overflow::Overflow;
 use crate::rounding::Rounding;
 use crate::storage::{Storage, Wide};
-use crate::text::{push_bit, ParseError};
+use crate::text::{ParseError, push_bit};
 use crate::typed::{QType, Sq, Uq};
 
 /// Whether an `f64` is an integer (its exact value has no fraction bits).
@@ -120,14 +124,17 @@ macro_rules! bare_traits {
             /// is rounded to nearest (ties to even); integers are exact.
             fn from<T: ToPrimitive>(n: T) -> Option<Self> {
                 match n.to_f64() {
-                    Some(x) if !f64_is_integer(x) => Self::try_from_f64(x, Rounding::NearestTiesEven).ok(),
+                    Some(x) if !f64_is_integer(x) => {
+                        Self::try_from_f64(x, Rounding::NearestTiesEven).ok()
+                    }
                     float => {
                         if let Some(i) = n.to_i128() {
                             Self::checked_from_int(i)
                         } else if let Some(u) = n.to_u128() {
                             Self::checked_from_int(u)
                         } else {
-                            float.and_then(|x| Self::try_from_f64(x, Rounding::NearestTiesEven).ok())
+                            float
+                                .and_then(|x| Self::try_from_f64(x, Rounding::NearestTiesEven).ok())
                         }
                     }
                 }
@@ -330,7 +337,9 @@ macro_rules! wrapper_ops {
                 }
                 let q = divide(a.to_wide(), b.to_wide(), F::U32);
                 let f = crate::convert::fitted(q, Rounding::NearestTiesEven, T::<I, F>::FORMAT);
-                $w(T::<I, F>::from_bits_unchecked(f.resolve(T::<I, F>::FORMAT, $ovf)))
+                $w(T::<I, F>::from_bits_unchecked(
+                    f.resolve(T::<I, F>::FORMAT, $ovf),
+                ))
             }
         }
         impl<I: $layout<F>, F: Unsigned> Rem for $w<$name<I, F>> {
@@ -344,7 +353,10 @@ macro_rules! wrapper_ops {
                 if rhs.0 == <$name<I, F>>::ZERO {
                     panic!("qbound: remainder by zero");
                 }
-                $w(<$name<I, F>>::from_bits_unchecked(remainder(self.0.to_bits(), rhs.0.to_bits())))
+                $w(<$name<I, F>>::from_bits_unchecked(remainder(
+                    self.0.to_bits(),
+                    rhs.0.to_bits(),
+                )))
             }
         }
         impl<I: $layout<F>, F: Unsigned> Neg for $w<$name<I, F>> {
@@ -455,10 +467,46 @@ macro_rules! wrapper_ops {
     };
 }
 
-wrapper_ops!(Wrapped, Sq, SignedLayout, Overflow::Wrap, wrapping_add, wrapping_sub, wrapping_mul, wrapping_neg);
-wrapper_ops!(Wrapped, Uq, UnsignedLayout, Overflow::Wrap, wrapping_add, wrapping_sub, wrapping_mul, wrapping_neg);
-wrapper_ops!(Saturated, Sq, SignedLayout, Overflow::Saturate, saturating_add, saturating_sub, saturating_mul, saturating_neg);
-wrapper_ops!(Saturated, Uq, UnsignedLayout, Overflow::Saturate, saturating_add, saturating_sub, saturating_mul, saturating_neg);
+wrapper_ops!(
+    Wrapped,
+    Sq,
+    SignedLayout,
+    Overflow::Wrap,
+    wrapping_add,
+    wrapping_sub,
+    wrapping_mul,
+    wrapping_neg
+);
+wrapper_ops!(
+    Wrapped,
+    Uq,
+    UnsignedLayout,
+    Overflow::Wrap,
+    wrapping_add,
+    wrapping_sub,
+    wrapping_mul,
+    wrapping_neg
+);
+wrapper_ops!(
+    Saturated,
+    Sq,
+    SignedLayout,
+    Overflow::Saturate,
+    saturating_add,
+    saturating_sub,
+    saturating_mul,
+    saturating_neg
+);
+wrapper_ops!(
+    Saturated,
+    Uq,
+    UnsignedLayout,
+    Overflow::Saturate,
+    saturating_add,
+    saturating_sub,
+    saturating_mul,
+    saturating_neg
+);
 
 /// Division by zero: a panic when wrapping, the bound toward the
 /// dividend's sign when saturating.

@@ -13,7 +13,8 @@
 
 use proptest::prelude::*;
 use qbound::{
-    qconst, FloatError, Format, Overflow, ParseErrorKind, QValue, Rounding, Saturated, Side, Wide, Wrapped, Q, UQ,
+    FloatError, Format, Overflow, ParseErrorKind, Q, QValue, Rounding, Saturated, Side, UQ, Wide,
+    Wrapped, qconst,
 };
 use rug::ops::Pow;
 use rug::{Integer, Rational};
@@ -23,12 +24,19 @@ use rug::{Integer, Rational};
 // ---------------------------------------------------------------------------
 
 fn exact(v: QValue) -> Rational {
-    Rational::from((to_integer(v.bits()), Integer::from(1) << v.format().frac_bits()))
+    Rational::from((
+        to_integer(v.bits()),
+        Integer::from(1) << v.format().frac_bits(),
+    ))
 }
 
 fn to_integer(w: Wide) -> Integer {
     let lo = Integer::from(w.low_bits());
-    if w.is_negative() { lo - (Integer::from(1) << 128) } else { lo }
+    if w.is_negative() {
+        lo - (Integer::from(1) << 128)
+    } else {
+        lo
+    }
 }
 
 fn to_wide(i: &Integer) -> Wide {
@@ -62,8 +70,8 @@ fn round_ref(x: &Rational, mode: Rounding) -> Integer {
         Rounding::NearestTiesEven => fract > half || (fract == half && odd),
         Rounding::ToOdd => !odd,
         Rounding::Stochastic(r) => {
-            let frac64 = (fract << 64u32).floor().numer().clone();
-            Integer::from(r) < frac64
+            let frac64 = (fract << 64u32).floor();
+            frac64 > r
         }
     };
     if up { floor + 1 } else { floor }
@@ -73,7 +81,11 @@ fn round_ref(x: &Rational, mode: Rounding) -> Integer {
 /// when it does not fit.
 fn overflow_ref(i: Integer, f: Format, ovf: Overflow) -> Option<Integer> {
     let (lo, hi) = range(f);
-    let sym_lo = if f.is_signed() { lo.clone() + 1 } else { lo.clone() };
+    let sym_lo = if f.is_signed() {
+        lo.clone() + 1
+    } else {
+        lo.clone()
+    };
     match ovf {
         _ if i >= lo && i <= hi && !matches!(ovf, Overflow::SaturateSymmetric) => Some(i),
         Overflow::Wrap => {
@@ -154,7 +166,11 @@ fn value_in(f: Format, raw: u128, pick: u8) -> QValue {
         2 => QValue::zero(f),
         _ => {
             let w = f.width();
-            let low = if w == 128 { raw } else { raw & ((1u128 << w) - 1) };
+            let low = if w == 128 {
+                raw
+            } else {
+                raw & ((1u128 << w) - 1)
+            };
             let bits = if f.is_signed() && w < 128 && (low >> (w - 1)) & 1 == 1 {
                 Wide::from_i128((low | !((1u128 << w) - 1)) as i128)
             } else if f.is_signed() {
@@ -168,7 +184,8 @@ fn value_in(f: Format, raw: u128, pick: u8) -> QValue {
 }
 
 fn value_strategy() -> impl Strategy<Value = QValue> {
-    (format_strategy(), any::<u128>(), any::<u8>()).prop_map(|(f, raw, pick)| value_in(f, raw, pick))
+    (format_strategy(), any::<u128>(), any::<u8>())
+        .prop_map(|(f, raw, pick)| value_in(f, raw, pick))
 }
 
 fn rounding_strategy() -> impl Strategy<Value = Rounding> {
@@ -179,7 +196,13 @@ fn rounding_strategy() -> impl Strategy<Value = Rounding> {
 }
 
 fn overflow_strategy() -> impl Strategy<Value = Overflow> {
-    proptest::sample::select(&[Overflow::Wrap, Overflow::Saturate, Overflow::SaturateSymmetric][..])
+    proptest::sample::select(
+        &[
+            Overflow::Wrap,
+            Overflow::Saturate,
+            Overflow::SaturateSymmetric,
+        ][..],
+    )
 }
 
 /// Floats of every kind: any bit pattern, and values near a format's scale.
@@ -299,7 +322,11 @@ fn decimal_ref(v: QValue) -> String {
     let (int, frac) = digits.split_at(digits.len() - f as usize);
     let frac = frac.trim_end_matches('0');
     let sign = if neg { "-" } else { "" };
-    if frac.is_empty() { format!("{sign}{int}") } else { format!("{sign}{int}.{frac}") }
+    if frac.is_empty() {
+        format!("{sign}{int}")
+    } else {
+        format!("{sign}{int}.{frac}")
+    }
 }
 
 /// `{:.n}` from the exact rational, ties to even.
@@ -311,7 +338,11 @@ fn fixed_places_ref(v: QValue, n: usize) -> String {
     let r = format!("{:0>width$}", r, width = n + 1);
     let (int, frac) = r.split_at(r.len() - n);
     let sign = if neg { "-" } else { "" };
-    if n == 0 { format!("{sign}{int}") } else { format!("{sign}{int}.{frac}") }
+    if n == 0 {
+        format!("{sign}{int}")
+    } else {
+        format!("{sign}{int}.{frac}")
+    }
 }
 
 fn parse_rational(s: &str) -> Rational {
@@ -437,17 +468,37 @@ fn exhaustive_small_formats() {
             let v = QValue::from_i128_bits(f, b).unwrap();
             let text = v.to_string();
             assert_eq!(text, decimal_ref(v), "{f} {b}");
-            assert_eq!(QValue::try_parse(f, &text, Rounding::NearestTiesEven).unwrap().bits(), v.bits());
+            assert_eq!(
+                QValue::try_parse(f, &text, Rounding::NearestTiesEven)
+                    .unwrap()
+                    .bits(),
+                v.bits()
+            );
             // 12 bits fit a float exactly both ways.
             let x = v.to_f64();
             assert_eq!(Rational::from_f64(x).unwrap(), exact(v));
-            assert_eq!(QValue::try_from_f64(f, x, Rounding::Floor).unwrap().bits(), v.bits());
-            assert_eq!(QValue::try_from_f32(f, v.to_f32(), Rounding::Ceil).unwrap().bits(), v.bits());
+            assert_eq!(
+                QValue::try_from_f64(f, x, Rounding::Floor).unwrap().bits(),
+                v.bits()
+            );
+            assert_eq!(
+                QValue::try_from_f32(f, v.to_f32(), Rounding::Ceil)
+                    .unwrap()
+                    .bits(),
+                v.bits()
+            );
             for places in [0usize, 1, 3] {
-                assert_eq!(format!("{v:.places$}"), fixed_places_ref(v, places), "{f} {b}");
+                assert_eq!(
+                    format!("{v:.places$}"),
+                    fixed_places_ref(v, places),
+                    "{f} {b}"
+                );
             }
             let t = v.to_int::<i32>(Rounding::NearestTiesEven, Overflow::Panic);
-            assert_eq!(Integer::from(t), round_ref(&exact(v), Rounding::NearestTiesEven));
+            assert_eq!(
+                Integer::from(t),
+                round_ref(&exact(v), Rounding::NearestTiesEven)
+            );
         }
     }
 }
@@ -490,13 +541,19 @@ fn bad_text_is_an_error_with_a_position() {
     for (text, kind, pos) in cases {
         let e = QValue::try_parse(f, text, Rounding::NearestTiesEven).unwrap_err();
         if *text == "0x1e5" {
-            assert!(matches!(e.kind(), ParseErrorKind::OutOfRange(r) if r.side() == Side::Above), "{text:?}");
+            assert!(
+                matches!(e.kind(), ParseErrorKind::OutOfRange(r) if r.side() == Side::Above),
+                "{text:?}"
+            );
         } else {
             assert_eq!((e.kind(), e.position()), (*kind, *pos), "{text:?}");
         }
         assert!(!e.to_string().is_empty());
         // The typed FromStr agrees.
-        assert_eq!("x".parse::<Q<7, 8>>().unwrap_err().kind(), ParseErrorKind::NoDigits);
+        assert_eq!(
+            "x".parse::<Q<7, 8>>().unwrap_err().kind(),
+            ParseErrorKind::NoDigits
+        );
     }
 }
 
@@ -506,24 +563,59 @@ fn huge_and_long_inputs() {
     let near = Rounding::NearestTiesEven;
     // Huge exponents are values, not syntax errors.
     assert!(QValue::try_parse(f, "1e999999999999999999999", near).is_err());
-    assert!(QValue::try_parse(f, "0e999999999999999999999", near).unwrap().is_zero());
-    assert!(QValue::try_parse(f, "1e-999999999999999999999", near).unwrap().is_zero());
-    assert_eq!(QValue::try_parse(f, "1e-999999999999999999999", Rounding::Ceil).unwrap().to_i128_bits(), Some(1));
-    assert_eq!(QValue::parse(f, "-1e99999", near, Overflow::Saturate).unwrap(), QValue::min(f));
-    assert!(QValue::parse(f, "1e99999", near, Overflow::Wrap).unwrap().is_zero()); // 10^99999 * 2^8 = 0 mod 2^16
+    assert!(
+        QValue::try_parse(f, "0e999999999999999999999", near)
+            .unwrap()
+            .is_zero()
+    );
+    assert!(
+        QValue::try_parse(f, "1e-999999999999999999999", near)
+            .unwrap()
+            .is_zero()
+    );
+    assert_eq!(
+        QValue::try_parse(f, "1e-999999999999999999999", Rounding::Ceil)
+            .unwrap()
+            .to_i128_bits(),
+        Some(1)
+    );
+    assert_eq!(
+        QValue::parse(f, "-1e99999", near, Overflow::Saturate).unwrap(),
+        QValue::min(f)
+    );
+    assert!(
+        QValue::parse(f, "1e99999", near, Overflow::Wrap)
+            .unwrap()
+            .is_zero()
+    ); // 10^99999 * 2^8 = 0 mod 2^16
     // 10,000 digits: a tie broken by the very last digit.
-    let mut s = String::from("0.00195312");
+    let mut s = String::from("0.001953125"); // exactly half a step
     s.push_str(&"0".repeat(10_000));
-    assert_eq!(QValue::try_parse(f, &s, near).unwrap().to_i128_bits(), Some(0)); // below half a step
+    assert_eq!(
+        QValue::try_parse(f, &s, near).unwrap().to_i128_bits(),
+        Some(0)
+    ); // a tie: to even
     s.push('1');
-    assert_eq!(QValue::try_parse(f, &s, near).unwrap().to_i128_bits(), Some(1)); // just above
+    assert_eq!(
+        QValue::try_parse(f, &s, near).unwrap().to_i128_bits(),
+        Some(1)
+    ); // just above
     let long_int = "9".repeat(10_000);
     assert!(QValue::try_parse(f, &long_int, near).is_err());
-    assert_eq!(QValue::parse(f, &long_int, near, Overflow::Saturate).unwrap(), QValue::max(f));
+    assert_eq!(
+        QValue::parse(f, &long_int, near, Overflow::Saturate).unwrap(),
+        QValue::max(f)
+    );
     let zeros = format!("{}1.5", "0".repeat(10_000));
-    assert_eq!(QValue::try_parse(f, &zeros, near).unwrap().to_i128_bits(), Some(384));
+    assert_eq!(
+        QValue::try_parse(f, &zeros, near).unwrap().to_i128_bits(),
+        Some(384)
+    );
     let hex = format!("0x0.{}1p40004", "0".repeat(10_000));
-    assert_eq!(QValue::try_parse(f, &hex, near).unwrap().to_i128_bits(), Some(256 * 8));
+    assert_eq!(
+        QValue::try_parse(f, &hex, near).unwrap().to_i128_bits(),
+        Some(256 * 8)
+    );
 }
 
 #[test]
@@ -531,10 +623,22 @@ fn non_finite_floats_and_out_of_range_in_every_mode() {
     let f = Format::signed(3, 4).unwrap();
     for mode in Rounding::ALL {
         for ovf in Overflow::ALL {
-            assert_eq!(QValue::from_f64(f, f64::NAN, mode, ovf), Err(FloatError::NaN));
-            assert_eq!(QValue::from_f64(f, f64::INFINITY, mode, ovf), Err(FloatError::Infinite { negative: false }));
-            assert_eq!(QValue::from_f32(f, f32::NEG_INFINITY, mode, ovf), Err(FloatError::Infinite { negative: true }));
-            assert_eq!(Q::<3, 4>::from_f64(-f64::NAN, mode, ovf), Err(FloatError::NaN));
+            assert_eq!(
+                QValue::from_f64(f, f64::NAN, mode, ovf),
+                Err(FloatError::NaN)
+            );
+            assert_eq!(
+                QValue::from_f64(f, f64::INFINITY, mode, ovf),
+                Err(FloatError::Infinite { negative: false })
+            );
+            assert_eq!(
+                QValue::from_f32(f, f32::NEG_INFINITY, mode, ovf),
+                Err(FloatError::Infinite { negative: true })
+            );
+            assert_eq!(
+                Q::<3, 4>::from_f64(-f64::NAN, mode, ovf),
+                Err(FloatError::NaN)
+            );
         }
         for x in [8.0, 1e300, f64::MAX] {
             let e = QValue::try_from_f64(f, x, mode).unwrap_err();
@@ -544,10 +648,26 @@ fn non_finite_floats_and_out_of_range_in_every_mode() {
         assert!(QValue::try_from_int(f, 8u8).is_err());
         assert!(QValue::try_from_int(Format::unsigned(4, 0).unwrap(), -1i8).is_err());
         assert!(QValue::try_parse(f, "8", mode).is_err());
-        assert!(QValue::try_parse(f, "-8.0625", mode).is_err() || matches!(mode, Rounding::Ceil | Rounding::TowardZero | Rounding::NearestTiesEven | Rounding::NearestTiesUp | Rounding::NearestTiesAway | Rounding::Stochastic(_) | Rounding::ToOdd));
+        assert!(
+            QValue::try_parse(f, "-8.0625", mode).is_err()
+                || matches!(
+                    mode,
+                    Rounding::Ceil
+                        | Rounding::TowardZero
+                        | Rounding::NearestTiesEven
+                        | Rounding::NearestTiesUp
+                        | Rounding::NearestTiesAway
+                        | Rounding::Stochastic(_)
+                        | Rounding::ToOdd
+                )
+        );
     }
-    let r = std::panic::catch_unwind(|| QValue::from_f64(f, 100.0, Rounding::Floor, Overflow::Panic));
-    assert!(r.is_err(), "Overflow::Panic is the one mode that panics, by request");
+    let r =
+        std::panic::catch_unwind(|| QValue::from_f64(f, 100.0, Rounding::Floor, Overflow::Panic));
+    assert!(
+        r.is_err(),
+        "Overflow::Panic is the one mode that panics, by request"
+    );
 }
 
 // ---------------------------------------------------------------------------
@@ -559,7 +679,11 @@ fn typed_conversions_match_the_run_time_ones() {
     type T = Q<3, 12>;
     for x in [0.1, -3.99, 7.9999, -8.0, 1e-9, 12.5] {
         for mode in Rounding::ALL {
-            for ovf in [Overflow::Wrap, Overflow::Saturate, Overflow::SaturateSymmetric] {
+            for ovf in [
+                Overflow::Wrap,
+                Overflow::Saturate,
+                Overflow::SaturateSymmetric,
+            ] {
                 let typed = T::from_f64(x, mode, ovf).unwrap();
                 let rt = QValue::from_f64(T::FORMAT, x, mode, ovf).unwrap();
                 assert_eq!(typed.to_value(), rt);
@@ -584,7 +708,10 @@ fn const_literals() {
     const B: UQ<0, 128> = qconst!(UQ<0, 128>, "0.5");
     const C: Q<127, 0> = qconst!(Q<127, 0>, "-170141183460469231731687303715884105728");
     const D: Q<0, 7> = qconst!(Q<0, 7>, f64 - 0.25);
-    assert_eq!(A.to_value(), QValue::try_parse(Q::<1, 14>::FORMAT, "-1.9999", Rounding::NearestTiesEven).unwrap());
+    assert_eq!(
+        A.to_value(),
+        QValue::try_parse(Q::<1, 14>::FORMAT, "-1.9999", Rounding::NearestTiesEven).unwrap()
+    );
     assert_eq!(B.to_bits(), 1 << 127);
     assert_eq!(C.to_bits(), i128::MIN);
     assert_eq!(D.to_bits(), -32);
@@ -644,7 +771,10 @@ proptest! {
 
 #[test]
 fn wrappers_run_generic_code() {
-    let xs: Vec<Saturated<Q<7, 8>>> = ["1.5", "2.25", "-0.5"].iter().map(|s| s.parse().unwrap()).collect();
+    let xs: Vec<Saturated<Q<7, 8>>> = ["1.5", "2.25", "-0.5"]
+        .iter()
+        .map(|s| s.parse().unwrap())
+        .collect();
     assert_eq!(mean(&xs).0.to_string(), "1.08203125"); // 3.25 / 3 rounded to 1/256
     let big = vec![Saturated(Q::<7, 8>::MAX); 4];
     assert_eq!(mean(&big).0.to_string(), "32"); // the sum clamps to MAX first, then / 4 rounds
@@ -653,9 +783,68 @@ fn wrappers_run_generic_code() {
     use num_traits::{Num, One, Zero};
     assert!(Wrapped::<Q<7, 8>>::zero().is_zero());
     assert_eq!(Saturated::<UQ<1, 7>>::one().0.to_string(), "1");
-    assert_eq!(Saturated::<Q<7, 8>>::from_str_radix("-1.8", 16).unwrap().0.to_string(), "-1.5");
-    assert_eq!(Saturated::<Q<7, 8>>::from_str_radix("1", 7).unwrap_err().kind(), ParseErrorKind::InvalidRadix);
+    assert_eq!(
+        Saturated::<Q<7, 8>>::from_str_radix("-1.8", 16)
+            .unwrap()
+            .0
+            .to_string(),
+        "-1.5"
+    );
+    assert_eq!(
+        Saturated::<Q<7, 8>>::from_str_radix("1", 7)
+            .unwrap_err()
+            .kind(),
+        ParseErrorKind::InvalidRadix
+    );
     let z = Saturated(Q::<7, 8>::ZERO);
     assert_eq!((Saturated(Q::<7, 8>::MIN) / z).0, Q::<7, 8>::MIN);
-    assert!(std::panic::catch_unwind(|| Wrapped(Q::<7, 8>::MAX) / Wrapped(Q::<7, 8>::ZERO)).is_err());
+    assert!(
+        std::panic::catch_unwind(|| Wrapped(Q::<7, 8>::MAX) / Wrapped(Q::<7, 8>::ZERO)).is_err()
+    );
+}
+
+// ---------------------------------------------------------------------------
+// serde: exact text in JSON, stored bits in postcard.
+// ---------------------------------------------------------------------------
+
+proptest! {
+    #[test]
+    fn serde_round_trips(a in any::<i16>(), b in any::<u128>(), c in any::<i64>()) {
+        let x = Q::<7, 8>::from_bits(a);
+        let y = UQ::<0, 128>::from_bits(b);
+        let z = Q::<0, 63>::from_bits(c);
+        let json = serde_json::to_string(&(x, y, z)).unwrap();
+        prop_assert_eq!(&json, &format!("[\"{x}\",\"{y}\",\"{z}\"]"));
+        let back: (Q<7, 8>, UQ<0, 128>, Q<0, 63>) = serde_json::from_str(&json).unwrap();
+        prop_assert_eq!(back, (x, y, z));
+        let bytes = postcard::to_allocvec(&(x, y, z)).unwrap();
+        let back: (Q<7, 8>, UQ<0, 128>, Q<0, 63>) = postcard::from_bytes(&bytes).unwrap();
+        prop_assert_eq!(back, (x, y, z));
+    }
+}
+
+#[test]
+fn serde_rejects_values_that_do_not_fit() {
+    type T = Q<3, 4>;
+    assert!(serde_json::from_str::<T>("\"8\"").is_err());
+    assert!(serde_json::from_str::<T>("\"x\"").is_err());
+    assert!(serde_json::from_str::<T>("8").is_err());
+    assert!(serde_json::from_str::<T>("-9.5").is_err());
+    assert_eq!(serde_json::from_str::<T>("7").unwrap().to_string(), "7");
+    assert_eq!(
+        serde_json::from_str::<T>("-0.5").unwrap().to_string(),
+        "-0.5"
+    );
+    assert_eq!(
+        serde_json::from_str::<T>("\"0.03125\"").unwrap().to_bits(),
+        0
+    ); // tie to even
+    // Stored bits outside a 7-bit word (Q2.4 in an i8) are an error.
+    let bytes = postcard::to_allocvec(&100i8).unwrap();
+    assert!(postcard::from_bytes::<Q<2, 4>>(&bytes).is_err());
+    let bytes = postcard::to_allocvec(&-64i8).unwrap();
+    assert_eq!(
+        postcard::from_bytes::<Q<2, 4>>(&bytes).unwrap().to_bits(),
+        -64
+    );
 }
