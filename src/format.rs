@@ -407,6 +407,7 @@ fn parse_count(s: &str) -> Result<u64, FormatError> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use std::string::ToString;
 
     #[test]
     fn parse_and_print() {

@@ -136,6 +136,10 @@
 #![deny(missing_docs)]
 #![deny(unconditional_recursion)]
 
+#[cfg(test)]
+extern crate std;
+
+mod accumulate;
 mod convert;
 mod format;
 mod kernel;
@@ -153,6 +157,7 @@ mod typed;
 mod value;
 mod width;
 
+pub use accumulate::{rescale_slice, AccumulateError};
 pub use convert::{FloatError, PrimitiveInt};
 pub use format::{Format, FormatError, MAX_WIDTH};
 pub use overflow::{Overflow, RangeError, Side};
@@ -166,7 +171,7 @@ pub use value::QValue;
 #[doc(hidden)]
 pub use storage::{Residue, WorkInt};
 #[doc(hidden)]
-pub use typed::{HoldsFractionBits, HoldsIntegerBits};
+pub use typed::{HoldsFractionBits, HoldsIntegerBits, SignedIntoUnsigned};
 
 /// The signed format `Q(I, F)` with `usize` parameters: `Q<7, 8>` is
 /// [`Sq<U7, U8>`](Sq).
@@ -187,3 +192,8 @@ pub type Q<const I: usize, const F: usize> = Sq<typenum::U<I>, typenum::U<F>>;
 /// ```
 #[cfg(feature = "const-generics")]
 pub type UQ<const I: usize, const F: usize> = Uq<typenum::U<I>, typenum::U<F>>;
+
+/// The README's code blocks, compiled and run as doctests.
+#[cfg(doctest)]
+#[doc = include_str!("../README.md")]
+pub struct ReadmeDoctests;

@@ -126,34 +126,24 @@ impl Rounding {
     /// Whether to step the floor quotient up by one, given the class of the
     /// discarded part, the quotient's parity and the sign of the exact value.
     #[inline(always)]
-    pub(crate) fn rounds_up(
-        self,
-        exact: bool,
-        vs_half: Ordering,
-        frac64: u64,
-        q_odd: bool,
-        neg: bool,
-    ) -> bool {
-        if exact {
-            return false;
-        }
+    pub(crate) fn rounds_up(self, exact: bool, vs_half: Ordering, frac64: u64, q_odd: bool, neg: bool) -> bool {
+        // Written with non-short-circuit `&` / `|` so that the compiler can
+        // keep the decision branch-free. The nearest modes need no `exact`
+        // test: a residue at or above one half is never zero.
+        let inexact = !exact;
+        let above = vs_half == Ordering::Greater;
+        let tie = vs_half == Ordering::Equal;
         match self {
             Rounding::Floor => false,
-            Rounding::Ceil => true,
-            Rounding::TowardZero => neg,
-            Rounding::AwayFromZero => !neg,
-            Rounding::NearestTiesUp => vs_half != Ordering::Less,
-            Rounding::NearestTiesAway => match vs_half {
-                Ordering::Less => false,
-                Ordering::Equal => !neg,
-                Ordering::Greater => true,
-            },
-            Rounding::NearestTiesEven => match vs_half {
-                Ordering::Less => false,
-                Ordering::Equal => q_odd,
-                Ordering::Greater => true,
-            },
-            Rounding::ToOdd => !q_odd,
+            Rounding::Ceil => inexact,
+            Rounding::TowardZero => inexact & neg,
+            Rounding::AwayFromZero => inexact & !neg,
+            Rounding::NearestTiesUp => above | tie,
+            Rounding::NearestTiesAway => above | (tie & !neg),
+            Rounding::NearestTiesEven => above | (tie & q_odd),
+            Rounding::ToOdd => inexact & !q_odd,
+            // frac64 is zero when the shift is exact, so this never rounds
+            // an exact value.
             Rounding::Stochastic(random) => random < frac64,
         }
     }

@@ -183,16 +183,7 @@ impl Wide {
     pub const fn shr_floor(self, k: u32) -> Wide {
         if k == 0 {
             self
-        } else if k >= 129 {
-            if self.neg {
-                Wide {
-                    neg: true,
-                    lo: u128::MAX,
-                }
-            } else {
-                Wide::ZERO
-            }
-        } else if k == 128 {
+        } else if k >= 128 {
             if self.neg {
                 Wide {
                     neg: true,
@@ -298,7 +289,7 @@ impl Residue {
     /// complement low 128 bits are `low`.
     #[inline]
     pub(crate) fn of_low_bits(low: u128, k: u32) -> Residue {
-        debug_assert!(k >= 1 && k <= 128);
+        debug_assert!((1..=128).contains(&k));
         let r = if k == 128 {
             low
         } else {
@@ -477,7 +468,7 @@ macro_rules! impl_storage {
             }
             #[inline]
             fn extend_from(self, width: u32) -> Self {
-                debug_assert!(width >= 1 && width <= <$t>::BITS);
+                debug_assert!((1..=<$t>::BITS).contains(&width));
                 let s = <$t>::BITS - width;
                 if s == 0 { self } else { (self << s) >> s }
             }

@@ -587,3 +587,28 @@ macro_rules! widens {
 widens!(Sq, SignedLayout, Sq, SignedLayout);
 widens!(Uq, UnsignedLayout, Uq, UnsignedLayout);
 widens!(Uq, UnsignedLayout, Sq, SignedLayout);
+
+/// Marker that no valid format implements (its one impl has a negative
+/// typenum integer as fraction bits): it makes `widen` from a signed into
+/// an unsigned format fail with a message of its own. Without the
+/// signed-to-unsigned `WidensTo` impl below the compiler would infer a
+/// signed target and report mismatched types; the impl that exists keeps
+/// the bound undecided until the target type is known.
+#[doc(hidden)]
+#[diagnostic::on_unimplemented(
+    message = "`widen` cannot turn a signed format into an unsigned one: negative values have no unsigned representation",
+    label = "signed source, unsigned target",
+    note = "widen into a signed format with at least as many integer and fraction bits",
+    note = "to clamp negative values to zero, use `rescale` with `Overflow::Saturate`"
+)]
+pub trait SignedIntoUnsigned<F> {}
+impl SignedIntoUnsigned<typenum::Z0> for typenum::UTerm {}
+
+impl<I1, F1, I2, F2> WidensTo<Uq<I2, F2>> for Sq<I1, F1>
+where
+    I1: SignedLayout<F1>,
+    F1: Unsigned,
+    I2: UnsignedLayout<F2> + SignedIntoUnsigned<F2>,
+    F2: Unsigned,
+{
+}

@@ -5,4 +5,14 @@
 //! can be raised for long runs: `PROPTEST_CASES=100000 cargo test`.
 
 mod common;
+
+mod arith;
+mod compile_fail;
 mod convert;
+mod exhaustive;
+mod families;
+mod nostd;
+mod references;
+mod rescale;
+mod table;
+mod typed;

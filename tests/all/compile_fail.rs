@@ -1,0 +1,12 @@
+//! Compile-fail tests (`tests/ui/`): a product wider than 128 bits, lossy
+//! `widen` (fewer integer bits, fewer fraction bits, signed into
+//! unsigned), and a same-format method called with another format. The
+//! `.stderr` files hold the diagnostics a user sees; regenerate them with
+//! `TRYBUILD=overwrite cargo test --test all compile_fail` after a
+//! deliberate change to the messages, and read them.
+
+#[test]
+fn compile_fail() {
+    let t = trybuild::TestCases::new();
+    t.compile_fail("tests/ui/*.rs");
+}

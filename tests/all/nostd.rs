@@ -1,0 +1,32 @@
+//! The `no_std` proof: build `nostd-check` (a `#![no_std]` static library
+//! with its own panic handler that uses qbound's multiply, rescale and
+//! comparison) with `panic = abort`. If anything in qbound's dependency
+//! tree pulled in `std`, its panic handler would clash with the crate's own
+//! and the build would fail.
+
+use std::path::Path;
+use std::process::Command;
+
+#[test]
+fn nostd_check_crate_builds() {
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let out = Command::new(env!("CARGO"))
+        .current_dir(root)
+        .args([
+            "build",
+            "-p",
+            "qbound-nostd-check",
+            "--release",
+            "--target-dir",
+        ])
+        .arg(root.join("target").join("nostd"))
+        .env("RUSTFLAGS", "-C panic=abort")
+        .env_remove("CARGO_TARGET_DIR")
+        .output()
+        .expect("cargo runs");
+    assert!(
+        out.status.success(),
+        "the no_std crate failed to build:\n{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+}
