@@ -18,12 +18,20 @@ const FORMATS: &[(bool, u32, u32)] = &[
 ];
 
 fuzz_target!(|data: &[u8]| {
-    let Some((&sel, rest)) = data.split_first() else { return };
-    let Ok(text) = core::str::from_utf8(rest) else { return };
+    let Some((&sel, rest)) = data.split_first() else {
+        return;
+    };
+    let Ok(text) = core::str::from_utf8(rest) else {
+        return;
+    };
     let (s, i, f) = FORMATS[sel as usize % FORMATS.len()];
     let format = Format::new(s, i, f).unwrap();
     let rounding = Rounding::ALL[(sel as usize / 8) % 8];
-    let overflow = [Overflow::Wrap, Overflow::Saturate, Overflow::SaturateSymmetric][(sel as usize / 64) % 3];
+    let overflow = [
+        Overflow::Wrap,
+        Overflow::Saturate,
+        Overflow::SaturateSymmetric,
+    ][(sel as usize / 64) % 3];
     if let Ok(v) = QValue::parse(format, text, rounding, overflow) {
         let shown = v.to_string();
         let back = QValue::try_parse(format, &shown, Rounding::Floor).expect("display parses back");
