@@ -40,7 +40,7 @@ use crate::overflow::{Overflow, RangeError, Side};
 use crate::rounding::Rounding;
 use crate::storage::{Storage, Wide};
 use crate::typed::{Sq, Uq};
-use crate::value::QValue;
+use crate::value::{QValue, with_storage};
 
 // ---------------------------------------------------------------------------
 // The exact-then-round kernel shared by float conversion, parsing and the
@@ -769,19 +769,6 @@ macro_rules! value_bits {
             $body
         } else {
             let $x: u128 = $v.bits().low_bits();
-            $body
-        }
-    };
-}
-
-/// Run `$body` with `$D` naming the 128-bit storage of format `$f`.
-macro_rules! with_storage {
-    ($f:expr, $D:ident => $body:expr) => {
-        if $f.is_signed() {
-            type $D = i128;
-            $body
-        } else {
-            type $D = u128;
             $body
         }
     };

@@ -112,7 +112,7 @@ literal_bits!(Uq, UnsignedLayout);
 /// const PI: Q<2, 13> = qconst!(Q<2, 13>, "3.14159265358979323846");
 /// assert_eq!(PI.to_bits(), 25736);
 /// const E: Q<2, 13> = qconst!(Q<2, 13>, f64 core::f64::consts::E);
-/// assert_eq!(E.to_string(), "2.718261718750");
+/// assert_eq!(E.to_string(), "2.71826171875");
 /// # assert_eq!(E.to_bits(), 22268);
 /// ```
 ///

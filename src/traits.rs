@@ -231,7 +231,7 @@ pub struct Wrapped<T>(pub T);
 /// use qbound::{Q, Saturated, QType};
 /// let a = Saturated("1.5".parse::<Q<1, 6>>()?);
 /// assert_eq!((a + a).0, Q::<1, 6>::MAX);
-/// assert_eq!((a / Saturated(Q::ZERO)).0, Q::<1, 6>::MAX);
+/// assert_eq!((a / Saturated(Q::<1, 6>::ZERO)).0, Q::<1, 6>::MAX);
 /// # Ok::<(), qbound::ParseError>(())
 /// ```
 #[derive(Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Default)]

@@ -57,6 +57,7 @@ macro_rules! with_storage {
         }
     };
 }
+pub(crate) use with_storage;
 
 impl QValue {
     pub(crate) const fn from_wide_unchecked(format: Format, bits: Wide) -> QValue {
