@@ -97,13 +97,6 @@ macro_rules! typed_common {
             }
         }
 
-        impl<I: $layout<F>, F: Unsigned> fmt::Debug for $name<I, F> {
-            /// The stored bits and the format, e.g. `Q7.8(bits=25)`.
-            fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-                write!(f, "{}(bits={:?})", Self::FORMAT, self.bits)
-            }
-        }
-
         impl<I: $layout<F>, F: Unsigned> QType for $name<I, F> {
             type Storage = <I as $layout<F>>::Storage;
             const FORMAT: Format = Format::new_const($signed, I::U32, F::U32);

@@ -25,7 +25,7 @@ use crate::storage::{Storage, Wide};
 /// assert_eq!(r, p);
 /// # Ok::<(), Box<dyn core::error::Error>>(())
 /// ```
-#[derive(Clone, Copy, Debug)]
+#[derive(Clone, Copy)]
 pub struct QValue {
     format: Format,
     bits: Wide,
@@ -57,6 +57,7 @@ macro_rules! with_storage {
         }
     };
 }
+pub(crate) use with_storage;
 
 impl QValue {
     pub(crate) const fn from_wide_unchecked(format: Format, bits: Wide) -> QValue {

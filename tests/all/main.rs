@@ -8,6 +8,7 @@ mod common;
 
 mod arith;
 mod compile_fail;
+mod convert;
 mod exhaustive;
 mod families;
 mod nostd;
