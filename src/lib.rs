@@ -63,6 +63,7 @@
 #![deny(unconditional_recursion)]
 
 mod format;
+mod functions;
 mod kernel;
 pub mod layout;
 mod ops;
@@ -74,6 +75,7 @@ mod value;
 mod width;
 
 pub use format::{Format, FormatError, MAX_WIDTH};
+pub use functions::FunctionError;
 pub use overflow::{Overflow, RangeError, Side};
 pub use rounding::Rounding;
 pub use storage::{Storage, Wide};
