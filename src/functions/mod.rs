@@ -18,21 +18,23 @@
 //!   mode, which compares its random word with the first 64 bits of the
 //!   exact discarded fraction.
 //! - **sin, cos, atan2, exp2, log2: correctly rounded in every mode unless
-//!   the exact value lies within about 2^-110 of a rounding boundary of the
-//!   output format**; there the result is faithful (one of the two
-//!   neighbours of the exact value), so the error is below one ulp plus
-//!   2^-110 in every mode. The kernels compute an approximation together
-//!   with a proven bound on its error (the method of Ziv): when every value
-//!   inside the bound rounds to the same result, that result is the
-//!   correctly rounded one. A first attempt uses as many iterations as the
-//!   output format needs plus 12 guard bits; the rare ambiguous case (about
-//!   one in 2^10) is redone at the kernels' full precision of about 120
-//!   bits. The values of these functions at fixed-point arguments are
-//!   irrational except at a few exact points (sin and cos at multiples of a
-//!   quarter turn, atan2 on the axes and diagonals, `2^n`, `log2(2^n)`),
-//!   which the kernels return exactly, so an ambiguous case at 120 bits
-//!   would need an argument closer to a rounding boundary than any found
-//!   in the tests; `docs/accuracy.md` lists the measured worst errors.
+//!   the exact value lies within 2^-112 of a rounding boundary of the
+//!   output format** (relative to the result for exp2); in every case the
+//!   error is below one ulp plus 2^-112. The kernels compute an
+//!   approximation together with a proven bound on its error (the method
+//!   of Ziv): when every value inside the bound rounds to the same result,
+//!   that result is the correctly rounded one. A first attempt uses as many
+//!   iterations as the output format needs plus 12 guard bits; the rare
+//!   ambiguous case (about one in 2^10) is redone at the kernels' full
+//!   precision of about 116 bits, and if that is still ambiguous the
+//!   approximation is rounded as it is. The values of these functions at
+//!   fixed-point arguments are irrational except at a few exact points
+//!   (sin and cos at multiples of a quarter turn, atan2 on the axes and
+//!   diagonals, `2^n`, `log2(2^n)`), which the kernels return exactly. For
+//!   output formats with up to about 100 fraction bits an argument whose
+//!   value lies within 2^-112 of a boundary is too rare to have been met in
+//!   any test; for wider outputs the 2^-112 term dominates.
+//!   `docs/accuracy.md` lists the measured worst errors.
 //!
 //! The radian forms carry one more rounding inside (the argument times
 //! `1/(2π)`, or the turns times `2π`), which the error bound includes, so

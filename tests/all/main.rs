@@ -5,3 +5,4 @@
 //! can be raised for long runs: `PROPTEST_CASES=100000 cargo test`.
 
 mod common;
+mod functions;
