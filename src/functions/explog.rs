@@ -78,19 +78,17 @@ pub(crate) fn exp2<D: Storage>(
     // The mantissa times 2^e, read with M - e fraction bits (for e > M,
     // shifted right to zero fraction bits).
     let scaled = |a: i128, err: i128| {
+        // 2^f lies strictly inside (1, 2) for 0 < f < 1.
+        let (lo, hi) = if err == 0 {
+            (i128::MIN, i128::MAX)
+        } else {
+            (1 << M, 1 << (M + 1))
+        };
         if e > M as i64 {
             let s = (e - M as i64) as u32;
-            Approx {
-                a: a >> s,
-                err: (err >> s) + (err != 0) as i128,
-                frac: 0,
-            }
+            Approx::new(a >> s, (err >> s) + (err != 0) as i128, 0).within(lo >> s, hi >> s)
         } else {
-            Approx {
-                a,
-                err,
-                frac: (M as i64 - e) as u32,
-            }
+            Approx::new(a, err, (M as i64 - e) as u32).within(lo, hi)
         }
     };
     if f == 0 && !lost {
@@ -142,10 +140,8 @@ pub(crate) fn log2<D: Storage>(
         // table n/2; input rounding 3.
         let err126 = 3 * (two - y) + 8 * n as i128 + 3 + 3 * lost as i128;
         let a126 = (1i128 << L) - acc;
-        Approx {
-            a: (e << R) + (a126 >> (L - R)),
-            err: (err126 >> (L - R)) + 2,
-            frac: R,
-        }
+        // log2 of a mantissa strictly inside (1, 2) lies inside (0, 1).
+        Approx::new((e << R) + (a126 >> (L - R)), (err126 >> (L - R)) + 2, R)
+            .within(e << R, (e + 1) << R)
     }))
 }

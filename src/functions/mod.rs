@@ -259,37 +259,176 @@ pub(crate) fn fit_mag<D: Storage>(neg: bool, m: Mag, dst: Format, rnd: Rounding)
 }
 
 /// An approximation `a * 2^-frac` of a real value with an error of at most
-/// `err * 2^-frac`.
+/// `err * 2^-frac`, and strict bounds known from mathematics: the value
+/// lies in the open interval `(lo * 2^-frac, hi * 2^-frac)` (e.g. a cosine
+/// of a nonzero angle is below 1). The bounds settle the cases where the
+/// value is closer to an exact boundary than the error bound.
 #[derive(Clone, Copy, Debug)]
 pub(crate) struct Approx {
     pub a: i128,
     pub err: i128,
     pub frac: u32,
+    pub lo: i128,
+    pub hi: i128,
 }
 
 impl Approx {
     pub const fn exact(a: i128, frac: u32) -> Approx {
-        Approx { a, err: 0, frac }
+        Approx {
+            a,
+            err: 0,
+            frac,
+            lo: i128::MIN,
+            hi: i128::MAX,
+        }
+    }
+
+    /// An approximation with an error bound and no strict bounds.
+    pub const fn new(a: i128, err: i128, frac: u32) -> Approx {
+        Approx {
+            a,
+            err,
+            frac,
+            lo: i128::MIN,
+            hi: i128::MAX,
+        }
+    }
+
+    /// With the value known to lie strictly between `lo` and `hi`.
+    pub const fn within(self, lo: i128, hi: i128) -> Approx {
+        Approx { lo, hi, ..self }
+    }
+
+    /// `c + s * self` for `s = 1` or `-1`.
+    pub const fn affine(self, c: i128, negate: bool) -> Approx {
+        if negate {
+            Approx {
+                a: c - self.a,
+                err: self.err,
+                frac: self.frac,
+                lo: c.saturating_sub(self.hi),
+                hi: c.saturating_sub(self.lo),
+            }
+        } else {
+            Approx {
+                a: c + self.a,
+                err: self.err,
+                frac: self.frac,
+                lo: c.saturating_add(self.lo),
+                hi: c.saturating_add(self.hi),
+            }
+        }
     }
 
     pub const fn neg(self) -> Approx {
-        Approx {
-            a: -self.a,
-            err: self.err,
-            frac: self.frac,
-        }
+        self.affine(0, true)
+    }
+
+    /// [`Approx::round`] for kernels outside this module.
+    pub(crate) fn round_exact<D: Storage>(self, dst: Format, rnd: Rounding) -> Option<Fitted<D>> {
+        self.round(dst, rnd)
     }
 
     /// The rounded result if every value within the error bound rounds to
     /// it (the rounding modes are monotone), else `None`.
     fn round<D: Storage>(self, dst: Format, rnd: Rounding) -> Option<Fitted<D>> {
-        let lo = rescale_jam::<D>(self.a - self.err, self.frac, dst, rnd);
         if self.err == 0 {
-            return Some(lo);
+            return Some(rescale_jam::<D>(self.a, self.frac, dst, rnd));
         }
-        let hi = rescale_jam::<D>(self.a + self.err, self.frac, dst, rnd);
+        let lo = if self.a - self.err <= self.lo {
+            nudged::<D>(self.lo, self.frac, true, dst, rnd)
+        } else {
+            rescale_jam::<D>(self.a - self.err, self.frac, dst, rnd)
+        };
+        let hi = if self.a + self.err >= self.hi {
+            nudged::<D>(self.hi, self.frac, false, dst, rnd)
+        } else {
+            rescale_jam::<D>(self.a + self.err, self.frac, dst, rnd)
+        };
         (lo.wrapped == hi.wrapped && lo.side == hi.side).then_some(lo)
     }
+}
+
+/// The rounding of `b * 2^-frac` plus (`up`) or minus an infinitesimal:
+/// what every value strictly beside `b` and closer than 2^-(F+66) rounds
+/// to.
+fn nudged<D: Storage>(b: i128, frac: u32, up: bool, dst: Format, rnd: Rounding) -> Fitted<D> {
+    let neg = b < 0 || (b == 0 && !up);
+    // Whether the magnitude grows by the infinitesimal.
+    let grows = b == 0 || (b > 0) == up;
+    let mb = b.unsigned_abs();
+    let fd = dst.frac_bits();
+    // The magnitude in output steps: q + r / 2^k.
+    let (q, big, r, k) = if fd >= frac {
+        let s = fd - frac;
+        let big = s >= 128 || (mb != 0 && mb.leading_zeros() < s);
+        (if s >= 128 { 0 } else { mb << s }, big, 0u128, 0u32)
+    } else {
+        let k = frac - fd;
+        if k >= 128 {
+            (0, false, mb, k)
+        } else {
+            (mb >> k, false, mb & ((1 << k) - 1), k)
+        }
+    };
+    // r / 2^k against 1/2, and floor(r * 2^64 / 2^k) with its exactness.
+    let (vs_half, f64_, f_exact) = if k == 0 {
+        (core::cmp::Ordering::Less, 0u64, true)
+    } else {
+        let half_cmp = if k > 128 {
+            core::cmp::Ordering::Less
+        } else {
+            r.cmp(&(1u128 << (k - 1)))
+        };
+        if k <= 64 {
+            ((half_cmp), (r << (64 - k)) as u64, true)
+        } else {
+            let sh = k - 64;
+            let (f, ex) = if sh >= 128 {
+                (0, r == 0)
+            } else {
+                ((r >> sh) as u64, r & ((1 << sh) - 1) == 0)
+            };
+            (half_cmp, f, ex)
+        }
+    };
+    let m = if grows {
+        Mag {
+            q,
+            big,
+            exact: false,
+            vs_half: if vs_half == core::cmp::Ordering::Equal {
+                core::cmp::Ordering::Greater
+            } else {
+                vs_half
+            },
+            frac64: f64_,
+            frac_exact: false,
+        }
+    } else if r == 0 {
+        Mag {
+            q: q.wrapping_sub(1),
+            big: big && q != 0,
+            exact: false,
+            vs_half: core::cmp::Ordering::Greater,
+            frac64: u64::MAX,
+            frac_exact: false,
+        }
+    } else {
+        Mag {
+            q,
+            big,
+            exact: false,
+            vs_half: if vs_half == core::cmp::Ordering::Equal {
+                core::cmp::Ordering::Less
+            } else {
+                vs_half
+            },
+            frac64: if f_exact { f64_.wrapping_sub(1) } else { f64_ },
+            frac_exact: false,
+        }
+    };
+    fit_mag(neg, m, dst, rnd)
 }
 
 /// [`kernel::rescale`] for any number of discarded bits: beyond 128 the

@@ -55,7 +55,14 @@ fn rotate(theta: i128, extra: i128, n: u32) -> (Approx, Approx) {
         }
     }
     let err = 4 * (z.abs() + extra) + 5 * n as i128 + 4;
-    (Approx { a: x, err, frac: V }, Approx { a: y, err, frac: V })
+    let (c, s) = (Approx::new(x, err, V), Approx::new(y, err, V));
+    if extra == 0 {
+        // An exact angle in (0, 1/8] turn: both strictly in (0, 1).
+        (c.within(0, 1 << V), s.within(0, 1 << V))
+    } else {
+        // A nonzero number of radians: never an exact +-1.
+        (c.within(-(1 << V), 1 << V), s.within(-(1 << V), 1 << V))
+    }
 }
 
 /// `(cos, sin)` of a phase in units of 2^-128 turn (the whole `u128` is
@@ -143,6 +150,20 @@ pub(crate) fn sin_radians<D: Storage>(
     dst: Format,
     rnd: Rounding,
 ) -> Result<Fitted<D>, FunctionError> {
+    // A small dyadic x lies just above sin(x), which may be closer to x
+    // than any fixed precision resolves: use x - x^3/6 < sin(x) < x.
+    let fa = x.format().frac_bits();
+    let (neg, m) = sign_magnitude(x.bits());
+    if m != 0 && fa <= V && m.leading_zeros() >= V - fa && (m << (V - fa)) < 1 << 109 {
+        let big = (m << (V - fa)) as i128; // |x| in units of 2^-125, below 2^-16
+        let u = (big >> 83) + 1; // |x| < u * 2^-42
+        let err = u * u * u / 8 + 1; // x^3/6 < u^3 * 2^-126 / 6
+        let ap = Approx::new(big, err, V).within(big - err - 1, big);
+        let ap = if neg { ap.neg() } else { ap };
+        if let Some(f) = ap.round_exact(dst, rnd) {
+            return Ok(f);
+        }
+    }
     Ok(sincos_fitted(phase_of_radians(x), dst, rnd, true))
 }
 
@@ -174,13 +195,17 @@ enum Folded {
 const QUARTER: i128 = 1 << (Z - 2);
 const HALF: i128 = 1 << (Z - 1);
 
-fn unfold(phi: i128, swapped: bool, xneg: bool, yneg: bool) -> i128 {
-    let phi = if swapped { QUARTER - phi } else { phi };
+fn unfold(phi: Approx, swapped: bool, xneg: bool, yneg: bool) -> Approx {
+    let phi = if swapped {
+        phi.affine(QUARTER, true)
+    } else {
+        phi
+    };
     match (xneg, yneg) {
         (false, false) => phi,
-        (true, false) => HALF - phi,
-        (true, true) => phi - HALF,
-        (false, true) => -phi,
+        (true, false) => phi.affine(HALF, true),
+        (true, true) => phi.affine(-HALF, false),
+        (false, true) => phi.neg(),
     }
 }
 
@@ -198,7 +223,7 @@ fn fold(y: QValue, x: QValue) -> Folded {
     let xs = Nat::from_u128(mx).shl(y.format().frac_bits());
     let swapped = ys > xs;
     if ys == xs {
-        return Folded::Exact(unfold(QUARTER / 2, false, xneg, yneg));
+        return Folded::Exact(unfold(Approx::exact(QUARTER / 2, Z), false, xneg, yneg).a);
     }
     let (big, small) = if swapped { (ys, xs) } else { (xs, ys) };
     let len = big.bit_len();
@@ -244,11 +269,13 @@ fn vector(f: &Folded, n: u32) -> Approx {
             // Left-over angle (2|y|), shift roundings (2n), table (n/2),
             // scaling of the inputs (3).
             let err = 2 * y.abs() + 3 * n as i128 + 8;
-            Approx {
-                a: unfold(z, swapped, xneg, yneg),
-                err,
-                frac: Z,
-            }
+            // The angle lies strictly inside (0, 1/8) turn.
+            unfold(
+                Approx::new(z, err, Z).within(0, QUARTER / 2),
+                swapped,
+                xneg,
+                yneg,
+            )
         }
     }
 }
@@ -282,10 +309,9 @@ pub(crate) fn atan2_radians<D: Storage>(
         // θ·2π: units 2^-126 times units 2^-125, taken at 2^-123.
         let (hi, _) = mul_u128(t.a.unsigned_abs(), TWO_PI);
         let a = hi as i128;
-        Approx {
-            a: if t.a < 0 { -a } else { a },
-            err: t.err + 2,
-            frac: Z - 3,
-        }
+        // Keep only a strict bound at zero (it maps exactly).
+        let keep = |b: i128, inf: i128| if b == 0 { 0 } else { inf };
+        Approx::new(if t.a < 0 { -a } else { a }, t.err + 2, Z - 3)
+            .within(keep(t.lo, i128::MIN), keep(t.hi, i128::MAX))
     }))
 }
