@@ -40,9 +40,9 @@ fn exp2_mantissa(f: i128, extra: i128, n: u32) -> (i128, i128) {
             y += y >> k;
         }
     }
-    // y·(2^f - 1) <= 2f for the exponent left over; roundings 2.4n;
-    // table n/8; input error 0.7 per unit.
-    (y, f / 4 + extra + 3 * n as i128 + 4)
+    // y·(2^t - 1) <= 2t for the exponent t = f·2^-126 left over, i.e. f
+    // units of 2^-125; roundings 2.4n; table n/8; input error 0.7 per unit.
+    (y, f + extra + 3 * n as i128 + 4)
 }
 
 /// `2^x` rounded into `dst`.

@@ -324,6 +324,18 @@ impl Approx {
         self.affine(0, true)
     }
 
+    /// The rounding of the point `v` clamped into the strict bounds (a
+    /// point at or beyond a bound stands for the values just inside it).
+    fn round_point<D: Storage>(&self, v: i128, dst: Format, rnd: Rounding) -> Fitted<D> {
+        if v <= self.lo {
+            nudged::<D>(self.lo, self.frac, true, dst, rnd)
+        } else if v >= self.hi {
+            nudged::<D>(self.hi, self.frac, false, dst, rnd)
+        } else {
+            rescale_jam::<D>(v, self.frac, dst, rnd)
+        }
+    }
+
     /// [`Approx::round`] for kernels outside this module.
     pub(crate) fn round_exact<D: Storage>(self, dst: Format, rnd: Rounding) -> Option<Fitted<D>> {
         self.round(dst, rnd)
@@ -335,16 +347,10 @@ impl Approx {
         if self.err == 0 {
             return Some(rescale_jam::<D>(self.a, self.frac, dst, rnd));
         }
-        let lo = if self.a - self.err <= self.lo {
-            nudged::<D>(self.lo, self.frac, true, dst, rnd)
-        } else {
-            rescale_jam::<D>(self.a - self.err, self.frac, dst, rnd)
-        };
-        let hi = if self.a + self.err >= self.hi {
-            nudged::<D>(self.hi, self.frac, false, dst, rnd)
-        } else {
-            rescale_jam::<D>(self.a + self.err, self.frac, dst, rnd)
-        };
+        let (lo, hi) = (
+            self.round_point(self.a - self.err, dst, rnd),
+            self.round_point(self.a + self.err, dst, rnd),
+        );
         (lo.wrapped == hi.wrapped && lo.side == hi.side).then_some(lo)
     }
 }
@@ -484,9 +490,9 @@ fn ziv<D: Storage>(
         if let Some(f) = a.round(dst, rnd) {
             return f;
         }
-        return rescale_jam(a.a, a.frac, dst, rnd);
+        return a.round_point(a.a, dst, rnd);
     }
-    rescale_jam(a.a, a.frac, dst, rnd)
+    a.round_point(a.a, dst, rnd)
 }
 
 /// Run `$body` with `$D` naming the 128-bit storage of format `$f`.
