@@ -19,7 +19,7 @@ use crate::format::Format;
 use crate::kernel::Fitted;
 use crate::overflow::Side;
 use crate::rounding::Rounding;
-use crate::storage::Storage;
+use crate::storage::{Storage, Wide};
 use crate::value::QValue;
 
 /// Fraction bits of exponents.
@@ -84,13 +84,23 @@ pub(crate) fn exp2<D: Storage>(
         } else {
             (1 << M, 1 << (M + 1))
         };
-        if e > M as i64 {
-            let s = (e - M as i64) as u32;
-            Approx::new(a >> s, (err >> s) + (err != 0) as i128, 0).within(lo >> s, hi >> s)
-        } else {
-            Approx::new(a, err, (M as i64 - e) as u32).within(lo, hi)
-        }
+        Approx::new(a, err, (M as i64 - e) as u32).within(lo, hi)
     };
+    if e > M as i64 {
+        // 2^x >= 2^126 in a format with at least 127 integer bits (so at
+        // most one fraction bit): beyond the kernel's relative precision,
+        // the approximation itself is the result (error below 2^-112
+        // relative, as the contract states).
+        let (a, _) = exp2_mantissa(f as i128, lost as i128, super::MAX_ITERS);
+        let k = (e - M as i64) as u32 + dst.frac_bits();
+        let v = (a as u128).checked_shl(k).filter(|v| v >> k == a as u128);
+        let side = match v {
+            Some(v) if Wide::from_u128(v) <= dst.max_bits() => None,
+            _ => Some(Side::Above),
+        };
+        let wrapped = D::from_u128_bits((a as u128).wrapping_shl(k)).extend_from(dst.width());
+        return Ok(Fitted { wrapped, side });
+    }
     if f == 0 && !lost {
         return Ok(ziv(dst, rnd, 1, |_| scaled(1 << M, 0)));
     }

@@ -173,6 +173,25 @@ pub(crate) fn cos_radians<D: Storage>(
     dst: Format,
     rnd: Rounding,
 ) -> Result<Fitted<D>, FunctionError> {
+    // For a small x, cos(x) lies just above 1 - x^2/2, which may be
+    // dyadic: use 1 - x^2/2 < cos(x) < 1 - x^2/2 + x^4/24 when that point
+    // is exact at 2^-125.
+    let fa = x.format().frac_bits();
+    let (_, m) = sign_magnitude(x.bits());
+    if m != 0 && fa <= V && m.leading_zeros() >= V - fa && (m << (V - fa)) < 1 << 98 {
+        let big = m << (V - fa); // |x| in units of 2^-125, below 2^-27
+        let (hi, lo) = mul_u128(big, big);
+        if lo & ((1 << 126) - 1) == 0 {
+            let half_sq = ((hi << 2) | (lo >> 126)) as i128; // x^2/2, exact
+            let u = (half_sq >> 60) + 1;
+            let err = u * u / 64 + 1; // x^4/24 < u^2 / 192
+            let a = (1 << V) - half_sq;
+            let ap = Approx::new(a, err, V).within(a, a + err + 1);
+            if let Some(f) = ap.round_exact(dst, rnd) {
+                return Ok(f);
+            }
+        }
+    }
     Ok(sincos_fitted(phase_of_radians(x), dst, rnd, false))
 }
 
@@ -299,6 +318,25 @@ pub(crate) fn atan2_radians<D: Storage>(
     dst: Format,
     rnd: Rounding,
 ) -> Result<Fitted<D>, FunctionError> {
+    // A small ratio r = |y/x| with x > 0 lies just above atan(r), which may
+    // be closer to a dyadic r than any fixed precision resolves: use
+    // r - r^3/3 < atan(r) < r when r is exact at 2^-123.
+    let (yneg, my) = sign_magnitude(y.bits());
+    let (xneg, mx) = sign_magnitude(x.bits());
+    if my != 0 && mx != 0 && !xneg {
+        let s = 123 + x.format().frac_bits() as i32 - y.format().frac_bits() as i32;
+        let r = super::divide::div_mag(my, s, mx, false);
+        if r.exact && !r.big && r.q < 1 << 107 {
+            let q = r.q as i128;
+            let u = (q >> 81) + 1; // r < u * 2^-42
+            let err = u * u * u / 16 + 1; // r^3/3 < u^3 * 2^-126 / 3
+            let ap = Approx::new(q, err, Z - 3).within(q - err - 1, q);
+            let ap = if yneg { ap.neg() } else { ap };
+            if let Some(f) = ap.round_exact(dst, rnd) {
+                return Ok(f);
+            }
+        }
+    }
     let f = fold(y, x);
     let first = first_iters(dst.frac_bits() as i64 + 3, rnd);
     Ok(ziv(dst, rnd, first, |n| {

@@ -236,7 +236,7 @@ pub fn round_ref(value: &Float, frac_bits: u32, rnd: Rounding) -> Integer {
         Rounding::ToOdd => inexact && !odd,
         Rounding::Stochastic(r) => {
             let frac64 = (rho << 64u32).floor().to_integer().unwrap();
-            Integer::from(r) < frac64
+            frac64 > r
         }
     };
     fl + up as u32

@@ -44,7 +44,7 @@ pub fn generate() -> String {
     s.push_str("pub(crate) const GAIN_INV: [u128; 125] = [\n");
     let mut g = Float::with_val(PREC, 1);
     for n in 0..=124u32 {
-        let v = nearest(Float::with_val(PREC, 1) / g.clone().sqrt() << 125u32);
+        let v = nearest((Float::with_val(PREC, 1) / g.clone().sqrt()) << 125u32);
         writeln!(s, "    {v:#034x},").unwrap();
         g *= Float::with_val(PREC, 1) + Float::with_val(PREC, Float::i_exp(1, -2 * n as i32));
     }
@@ -59,11 +59,11 @@ pub fn generate() -> String {
         writeln!(s, "    {v:#034x},").unwrap();
     }
     s.push_str("];\n\n");
-    let two_pi = nearest(pi() * 2u32 << 125u32);
+    let two_pi = nearest((pi() * 2u32) << 125u32);
     s.push_str("/// `2 pi` in units of 2^-125.\n");
     writeln!(s, "pub(crate) const TWO_PI: u128 = {two_pi:#034x};\n").unwrap();
     // floor(2^384 / (2 pi)) as six little-endian 64-bit limbs.
-    let inv: Integer = (Float::with_val(PREC, 1) / (pi() * 2u32) << 384u32)
+    let inv: Integer = ((Float::with_val(PREC, 1) / (pi() * 2u32)) << 384u32)
         .floor()
         .to_integer()
         .expect("finite");
