@@ -12,7 +12,7 @@ mod funcref;
 use std::fmt::Write;
 
 use funcref::{Func, fmt, round_ref, ulp_error, wide_to_integer};
-use qbound::{Format, QValue, Rounding, Wide};
+use qbound::{Format, QValue, Rounding};
 
 /// (inputs, output) formats at 16, 32 and 64 bits for each function.
 fn formats(f: Func) -> [(&'static str, &'static str, &'static str); 3] {
@@ -74,23 +74,7 @@ impl Rng {
         let raw = (self.next() as u128) << 64 | self.next() as u128;
         // Spread magnitudes: drop a random number of top bits.
         let raw = raw >> (self.next() % (f.width() as u64 + 1)) as u32;
-        let w = f.width();
-        let low = if w == 128 {
-            raw
-        } else {
-            raw & ((1u128 << w) - 1)
-        };
-        let bits = if f.is_signed() && low >> (w - 1) & 1 == 1 {
-            low | !((1u128 << w) - 1)
-        } else {
-            low
-        };
-        let wide = if f.is_signed() {
-            Wide::from_i128(bits as i128)
-        } else {
-            Wide::from_u128(bits)
-        };
-        QValue::new(f, wide).unwrap()
+        funcref::value_from_word(f, raw)
     }
 }
 

@@ -11,6 +11,13 @@ use qbound::{Format, QValue, Rounding, Wide};
 use rug::float::Constant;
 use rug::{Float, Integer, Rational};
 
+// Also built into the `ulp_table` example, which has no other way to
+// reach the shared helpers.
+#[allow(clippy::duplicate_mod)]
+#[path = "common.rs"]
+mod common;
+pub use common::{exact, wide_to_integer};
+
 /// Working precision of the references: far beyond any format's needs.
 pub const PREC: u32 = 400;
 
@@ -199,21 +206,26 @@ impl Func {
     }
 }
 
-/// The exact value of a fixed-point value.
-pub fn exact(v: QValue) -> Rational {
-    Rational::from((
-        wide_to_integer(v.bits()),
-        Integer::from(1) << v.format().frac_bits(),
-    ))
-}
-
-pub fn wide_to_integer(w: Wide) -> Integer {
-    let lo = Integer::from(w.low_bits());
-    if w.is_negative() {
-        lo - (Integer::from(1) << 128)
+/// Any stored integer of `f`, from a random 128-bit word (its low
+/// word-length bits, sign-extended).
+pub fn value_from_word(f: Format, raw: u128) -> QValue {
+    let w = f.width();
+    let low = if w == 128 {
+        raw
     } else {
-        lo
-    }
+        raw & ((1u128 << w) - 1)
+    };
+    let bits = if f.is_signed() && w < 128 && low >> (w - 1) & 1 == 1 {
+        low | !((1u128 << w) - 1)
+    } else {
+        low
+    };
+    let wide = if f.is_signed() {
+        Wide::from_i128(bits as i128)
+    } else {
+        Wide::from_u128(bits)
+    };
+    QValue::new(f, wide).unwrap()
 }
 
 /// `value * 2^F` rounded to an integer by `rnd`, from the definitions.

@@ -9,7 +9,7 @@ mod functables;
 
 use funcref::{Func, fmt, round_ref, ulp_error};
 use proptest::prelude::*;
-use qbound::{Format, FunctionError, Overflow, Q, QValue, Rounding, Side, UQ, Wide};
+use qbound::{Format, FunctionError, Overflow, Q, QValue, Rounding, Side, UQ};
 use rug::{Integer, Rational};
 
 /// Every mode, the stochastic one with a few random words.
@@ -258,27 +258,6 @@ fn grid() -> Vec<Format> {
     v
 }
 
-fn arb_value(f: Format, raw: u128) -> QValue {
-    // Any stored integer of the format, from a random 128-bit word.
-    let w = f.width();
-    let low = if w == 128 {
-        raw
-    } else {
-        raw & ((1u128 << w) - 1)
-    };
-    let bits = if f.is_signed() && w < 128 && low >> (w - 1) & 1 == 1 {
-        low | !((1u128 << w) - 1)
-    } else {
-        low
-    };
-    let wide = if f.is_signed() {
-        Wide::from_i128(bits as i128)
-    } else {
-        Wide::from_u128(bits)
-    };
-    QValue::new(f, wide).unwrap()
-}
-
 proptest! {
     #[test]
     fn functions_match_mpfr(
@@ -293,8 +272,8 @@ proptest! {
         let func = Func::ALL[fi];
         // Small magnitudes are common in practice and hard for the kernels:
         // shift the random words down by a random amount.
-        let a = arb_value(g[ia % g.len()], ra >> shift);
-        let b = arb_value(g[ib % g.len()], rb >> (shift / 2));
+        let a = funcref::value_from_word(g[ia % g.len()], ra >> shift);
+        let b = funcref::value_from_word(g[ib % g.len()], rb >> (shift / 2));
         let dst = g[io % g.len()];
         let rnd = match Rounding::ALL[mi] {
             Rounding::Stochastic(_) => Rounding::Stochastic(word),
