@@ -158,7 +158,7 @@ mod typed;
 mod value;
 mod width;
 
-pub use accumulate::{rescale_slice, AccumulateError};
+pub use accumulate::{AccumulateError, rescale_slice};
 pub use convert::{FloatError, PrimitiveInt};
 pub use format::{Format, FormatError, MAX_WIDTH};
 pub use functions::FunctionError;
