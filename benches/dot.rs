@@ -13,8 +13,8 @@
 
 use std::hint::black_box;
 
-use criterion::{criterion_group, criterion_main, Criterion};
-use qbound::{Overflow, Rounding, Q};
+use criterion::{Criterion, criterion_group, criterion_main};
+use qbound::{Overflow, Q, Rounding};
 
 const TAPS: usize = 64;
 
@@ -38,7 +38,11 @@ fn hand(x: &[i16; TAPS], h: &[i16; TAPS]) -> i16 {
     }
     let q = acc >> 15;
     let r = acc & 0x7fff;
-    let q = if r > 0x4000 || (r == 0x4000 && q & 1 == 1) { q + 1 } else { q };
+    let q = if r > 0x4000 || (r == 0x4000 && q & 1 == 1) {
+        q + 1
+    } else {
+        q
+    };
     q.clamp(i16::MIN as i64, i16::MAX as i64) as i16
 }
 

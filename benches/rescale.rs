@@ -12,8 +12,8 @@
 
 use std::hint::black_box;
 
-use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion, Throughput};
-use qbound::{Overflow, Rounding, Q};
+use criterion::{BenchmarkId, Criterion, Throughput, criterion_group, criterion_main};
+use qbound::{Overflow, Q, Rounding};
 
 const N: usize = 256;
 
@@ -33,7 +33,9 @@ fn seeded(seed: u64) -> impl FnMut() -> u128 {
 macro_rules! width_group {
     ($c:expr, $n:literal, $Src:ty, $Dst:ty, $s:ty, $d:ty) => {{
         let mut rnd = seeded(0x5eed_0000 + $n);
-        let src: Vec<$Src> = (0..N).map(|_| <$Src>::wrapping_from_bits(rnd() as $s)).collect();
+        let src: Vec<$Src> = (0..N)
+            .map(|_| <$Src>::wrapping_from_bits(rnd() as $s))
+            .collect();
         let words: Vec<u64> = (0..N).map(|_| rnd() as u64).collect();
         let mut g = $c.benchmark_group(concat!("rescale_", $n, "bit"));
         g.throughput(Throughput::Elements(N as u64));
@@ -52,11 +54,36 @@ macro_rules! width_group {
         }
         case!("rounding", "floor", Rounding::Floor, Overflow::Saturate);
         case!("rounding", "ceil", Rounding::Ceil, Overflow::Saturate);
-        case!("rounding", "toward-zero", Rounding::TowardZero, Overflow::Saturate);
-        case!("rounding", "away-from-zero", Rounding::AwayFromZero, Overflow::Saturate);
-        case!("rounding", "nearest-up", Rounding::NearestTiesUp, Overflow::Saturate);
-        case!("rounding", "nearest-away", Rounding::NearestTiesAway, Overflow::Saturate);
-        case!("rounding", "nearest-even", Rounding::NearestTiesEven, Overflow::Saturate);
+        case!(
+            "rounding",
+            "toward-zero",
+            Rounding::TowardZero,
+            Overflow::Saturate
+        );
+        case!(
+            "rounding",
+            "away-from-zero",
+            Rounding::AwayFromZero,
+            Overflow::Saturate
+        );
+        case!(
+            "rounding",
+            "nearest-up",
+            Rounding::NearestTiesUp,
+            Overflow::Saturate
+        );
+        case!(
+            "rounding",
+            "nearest-away",
+            Rounding::NearestTiesAway,
+            Overflow::Saturate
+        );
+        case!(
+            "rounding",
+            "nearest-even",
+            Rounding::NearestTiesEven,
+            Overflow::Saturate
+        );
         case!("rounding", "odd", Rounding::ToOdd, Overflow::Saturate);
         g.bench_function(BenchmarkId::new("rounding", "stochastic"), |b| {
             b.iter(|| {
@@ -68,9 +95,24 @@ macro_rules! width_group {
                 black_box(out)
             })
         });
-        case!("overflow", "wrap", Rounding::NearestTiesEven, Overflow::Wrap);
-        case!("overflow", "saturate", Rounding::NearestTiesEven, Overflow::Saturate);
-        case!("overflow", "saturate-symmetric", Rounding::NearestTiesEven, Overflow::SaturateSymmetric);
+        case!(
+            "overflow",
+            "wrap",
+            Rounding::NearestTiesEven,
+            Overflow::Wrap
+        );
+        case!(
+            "overflow",
+            "saturate",
+            Rounding::NearestTiesEven,
+            Overflow::Saturate
+        );
+        case!(
+            "overflow",
+            "saturate-symmetric",
+            Rounding::NearestTiesEven,
+            Overflow::SaturateSymmetric
+        );
         // Hand-written baselines on the raw integers.
         let raw: Vec<$s> = src.iter().map(|x| x.to_bits()).collect();
         let k = <$Src>::FORMAT.frac_bits() - <$Dst>::FORMAT.frac_bits();

@@ -35,11 +35,17 @@ fn main() {
     ];
     // Invented ADC words: a 0.4 g-ish hum, a knock, and a saturated spike.
     let adc: [i16; 16] = [
-        800, 1_900, 2_600, 2_300, 1_100, -300, -1_600, -2_400, -2_200, 14_000, 32_767, 32_767, 30_500,
-        -5_000, -32_768, -900,
+        800, 1_900, 2_600, 2_300, 1_100, -300, -1_600, -2_400, -2_200, 14_000, 32_767, 32_767,
+        30_500, -5_000, -32_768, -900,
     ];
 
-    println!("formats: sample {}, product {}, accumulator {} ({} bits)", Sample::FORMAT, Product::FORMAT, Acc::FORMAT, Acc::FORMAT.width());
+    println!(
+        "formats: sample {}, product {}, accumulator {} ({} bits)",
+        Sample::FORMAT,
+        Product::FORMAT,
+        Acc::FORMAT,
+        Acc::FORMAT.width()
+    );
     let exact: Format = Format::product(Sample::FORMAT, Sample::FORMAT).expect("fits 128 bits");
     assert_eq!(exact, Product::FORMAT); // the type system agrees with the algebra
 
@@ -66,11 +72,20 @@ fn main() {
         }
         assert_eq!(check, acc);
 
-        println!("{n:>4} {word:>8} {:>14} {:>8}", acc.to_bits(), out.to_bits());
+        println!(
+            "{n:>4} {word:>8} {:>14} {:>8}",
+            acc.to_bits(),
+            out.to_bits()
+        );
     }
 
     // What a firmware engineer asks next: did the output ever clip?
     let full_scale = Acc::dot(&[Sample::MAX; 8], &taps);
     let clipped: Result<Sample, _> = full_scale.try_rescale(Rounding::NearestTiesEven);
-    println!("a full-scale input gives {:?} in {} → {:?}", full_scale, Acc::FORMAT, clipped.map(|s| s.to_bits()));
+    println!(
+        "a full-scale input gives {:?} in {} → {:?}",
+        full_scale,
+        Acc::FORMAT,
+        clipped.map(|s| s.to_bits())
+    );
 }

@@ -55,9 +55,16 @@ impl fmt::Display for AccumulateError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
             AccumulateError::LengthMismatch { left, right } => {
-                write!(f, "sum of products over slices of different lengths ({left} and {right})")
+                write!(
+                    f,
+                    "sum of products over slices of different lengths ({left} and {right})"
+                )
             }
-            AccumulateError::TooManyTerms { terms, max, guard_bits } => write!(
+            AccumulateError::TooManyTerms {
+                terms,
+                max,
+                guard_bits,
+            } => write!(
                 f,
                 "{terms} terms may overflow an accumulator with {guard_bits} guard bits (at most {max} terms); \
                  use an accumulator with more integer bits"
@@ -179,15 +186,25 @@ sum_of_products_impl!(Uq, UnsignedLayout);
 ///
 /// ```
 /// use qbound::{rescale_slice, Q, Rounding, Overflow};
-/// let acc = [Q::<9, 30>::from_bits(3 << 29), Q::<9, 30>::from_bits(-(1 << 38))];
+/// let acc = [Q::<9, 30>::from_bits(3 << 28), Q::<9, 30>::from_bits(-(1 << 38))];
 /// let mut out = [Q::<0, 15>::ZERO; 2];
 /// rescale_slice(&acc, &mut out, Rounding::NearestTiesEven, Overflow::Saturate);
 /// assert_eq!(out[0].to_bits(), 0x6000); // 0.75
 /// assert_eq!(out[1], Q::<0, 15>::MIN);  // saturated
 /// ```
-pub fn rescale_slice<S: QType, T: QType>(src: &[S], dst: &mut [T], rounding: Rounding, overflow: crate::Overflow) {
+pub fn rescale_slice<S: QType, T: QType>(
+    src: &[S],
+    dst: &mut [T],
+    rounding: Rounding,
+    overflow: crate::Overflow,
+) {
     for (d, s) in dst.iter_mut().zip(src) {
-        let f = kernel::rescale::<_, T::Storage>(s.to_bits(), S::FORMAT.frac_bits(), T::FORMAT, rounding);
+        let f = kernel::rescale::<_, T::Storage>(
+            s.to_bits(),
+            S::FORMAT.frac_bits(),
+            T::FORMAT,
+            rounding,
+        );
         *d = T::wrapping_from_bits(f.resolve(T::FORMAT, overflow));
     }
 }

@@ -318,7 +318,11 @@ impl Format {
     /// # Ok::<(), qbound::FormatError>(())
     /// ```
     pub const fn negation(a: Format) -> Result<Format, FormatError> {
-        make(true, a.int_bits as u64 + a.signed as u64, a.frac_bits as u64)
+        make(
+            true,
+            a.int_bits as u64 + a.signed as u64,
+            a.frac_bits as u64,
+        )
     }
 }
 
@@ -411,8 +415,24 @@ mod tests {
             let f: Format = s.parse().unwrap();
             assert_eq!(f.to_string(), s);
         }
-        assert_eq!("uq3.4".parse::<Format>().unwrap(), Format::unsigned(3, 4).unwrap());
-        for bad in ["", "Q", "Q7", "Q7.", "Q.8", "Q-1.8", "Q7.8.1", "X7.8", "Q 7.8", "UQ0.0", "Q128.0", "Q99999999999999999999.0"] {
+        assert_eq!(
+            "uq3.4".parse::<Format>().unwrap(),
+            Format::unsigned(3, 4).unwrap()
+        );
+        for bad in [
+            "",
+            "Q",
+            "Q7",
+            "Q7.",
+            "Q.8",
+            "Q-1.8",
+            "Q7.8.1",
+            "X7.8",
+            "Q 7.8",
+            "UQ0.0",
+            "Q128.0",
+            "Q99999999999999999999.0",
+        ] {
             assert!(bad.parse::<Format>().is_err(), "{bad}");
         }
     }

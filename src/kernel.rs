@@ -9,7 +9,7 @@ use core::cmp::Ordering;
 
 use crate::format::Format;
 use crate::overflow::{Overflow, RangeError, Side};
-use crate::rounding::{shr_round, Rounding};
+use crate::rounding::{Rounding, shr_round};
 use crate::storage::{Product256, Storage, WorkInt};
 
 /// A rounded result before the overflow mode is applied: its bits reduced
@@ -36,7 +36,9 @@ impl<D: Storage> Fitted<D> {
                 }
             }
             (None, _) | (Some(_), Overflow::Wrap) => self.wrapped,
-            (Some(Side::Above), Overflow::Saturate | Overflow::SaturateSymmetric) => max_of::<D>(dst),
+            (Some(Side::Above), Overflow::Saturate | Overflow::SaturateSymmetric) => {
+                max_of::<D>(dst)
+            }
             (Some(Side::Below), Overflow::Saturate) => min_of::<D>(dst),
             (Some(Side::Below), Overflow::SaturateSymmetric) => {
                 if dst.is_signed() {
@@ -101,7 +103,12 @@ fn side_of<W: WorkInt>(x: W, dst: Format) -> Option<Side> {
 /// Rescale the integer `x`, read with `src_frac` fraction bits, into `dst`
 /// with rounding `rnd`.
 #[inline(always)]
-pub(crate) fn rescale<W: WorkInt, D: Storage>(x: W, src_frac: u32, dst: Format, rnd: Rounding) -> Fitted<D> {
+pub(crate) fn rescale<W: WorkInt, D: Storage>(
+    x: W,
+    src_frac: u32,
+    dst: Format,
+    rnd: Rounding,
+) -> Fitted<D> {
     let fd = dst.frac_bits();
     if fd <= src_frac {
         let q = shr_round(x, src_frac - fd, rnd);
@@ -121,23 +128,41 @@ pub(crate) fn rescale<W: WorkInt, D: Storage>(x: W, src_frac: u32, dst: Format, 
             None
         };
         // (x * 2^s) mod 2^width only needs the low bits of x.
-        let wrapped = D::from_u128_bits(x.low_u128()).shl(s).extend_from(dst.width());
+        let wrapped = D::from_u128_bits(x.low_u128())
+            .shl(s)
+            .extend_from(dst.width());
         Fitted { wrapped, side }
     }
 }
 
 /// Exact `a + b` into `dst` (which must hold the exact sum).
 #[inline(always)]
-pub(crate) fn add<A: Storage, B: Storage, D: Storage>(a: A, fa: u32, b: B, fb: u32, dst: Format) -> D {
+pub(crate) fn add<A: Storage, B: Storage, D: Storage>(
+    a: A,
+    fa: u32,
+    b: B,
+    fb: u32,
+    dst: Format,
+) -> D {
     let f = dst.frac_bits();
-    a.cast::<D>().shl(f - fa).wrapping_add(b.cast::<D>().shl(f - fb))
+    a.cast::<D>()
+        .shl(f - fa)
+        .wrapping_add(b.cast::<D>().shl(f - fb))
 }
 
 /// Exact `a - b` into `dst` (which must hold the exact difference).
 #[inline(always)]
-pub(crate) fn sub<A: Storage, B: Storage, D: Storage>(a: A, fa: u32, b: B, fb: u32, dst: Format) -> D {
+pub(crate) fn sub<A: Storage, B: Storage, D: Storage>(
+    a: A,
+    fa: u32,
+    b: B,
+    fb: u32,
+    dst: Format,
+) -> D {
     let f = dst.frac_bits();
-    a.cast::<D>().shl(f - fa).wrapping_sub(b.cast::<D>().shl(f - fb))
+    a.cast::<D>()
+        .shl(f - fa)
+        .wrapping_sub(b.cast::<D>().shl(f - fb))
 }
 
 /// Exact `-a` into a storage that holds it.
@@ -269,6 +294,9 @@ pub(crate) fn abs_same<S: Storage>(a: S, f: Format) -> Fitted<S> {
     if a.is_negative() {
         neg_same(a, f)
     } else {
-        Fitted { wrapped: a, side: None }
+        Fitted {
+            wrapped: a,
+            side: None,
+        }
     }
 }

@@ -46,10 +46,84 @@
 //! format that runs the same kernels as the typed values; the audit tool
 //! uses it.
 //!
+//! ## Conversions: exact, rounded or checked
+//!
+//! Every conversion is one of three kinds, and its name says which:
+//!
+//! - **Exact**: nothing can be lost. `From` impls exist only where the
+//!   format holds every value of the source (`i8` into any `Q<I, F>` with
+//!   `I >= 7`, `bool` into an unsigned format with an integer bit);
+//!   [`Sq::to_f64`] is exact for formats of at most 53 bits.
+//! - **Rounded**: [`Sq::from_int`], [`Sq::to_int`], [`Sq::from_f64`],
+//!   [`Sq::from_f32`], [`Sq::parse`] take a [`Rounding`] mode for the
+//!   fraction bits and an [`Overflow`] mode for the integer bits. Pick the
+//!   modes the firmware uses, and the model stays bit-exact. NaN and the
+//!   infinities are always errors ([`FloatError`]).
+//! - **Checked**: `try_from_int`, `try_to_int`, `try_from_f64`,
+//!   `try_parse` and the `checked_` forms round the same way but report a
+//!   value that does not fit instead of wrapping or clamping it. Use them
+//!   at trust boundaries: configuration files, host tools, test vectors.
+//!
+//! Float to fixed point is *exact, then rounded*: the float's bits are
+//! decomposed into an integer times a power of two and rounded once, with
+//! integer operations only. Fixed point to float is correctly rounded
+//! (IEEE 754 roundTiesToEven; beyond `f32::MAX` it is infinity).
+//!
+//! ```
+//! use qbound::{Q, Rounding, Overflow};
+//! type Coeff = Q<1, 14>;
+//! let c = Coeff::from_f64(0.1, Rounding::NearestTiesEven, Overflow::Saturate)?;
+//! assert_eq!(c.to_bits(), 1638);
+//! assert!(Coeff::try_from_f64(2.0, Rounding::NearestTiesEven).is_err());
+//! assert_eq!(Coeff::from_f64(2.0, Rounding::NearestTiesEven, Overflow::Saturate)?, Coeff::MAX);
+//! # Ok::<(), qbound::FloatError>(())
+//! ```
+//!
+//! Constants can be written as decimal text and are checked by the
+//! compiler: [`qconst!`] rounds to nearest (ties to even) at compile time,
+//! and a malformed or out-of-range literal fails the build.
+//!
+//! ## Text
+//!
+//! `{}` prints the exact decimal value (a binary fraction always has a
+//! finite decimal expansion); `{:.N}` rounds to `N` places, ties to even,
+//! without floats; width, fill, alignment, `+` and `0` work as for the
+//! primitive numbers; a negative value rounded to zero keeps its sign
+//! (`-0.00`), as `f64` does. `{:x}`, `{:X}`, `{:o}`, `{:b}` print the stored
+//! bits with every digit of the word; the alternate form (`{:#x}`) adds
+//! the prefix and marks the binary point (`0x01.80` is 1.5 in Q7.8).
+//! `{:?}` shows format and value: `Q7.8(1.5)`.
+//!
+//! Parsing ([`Sq::parse`], [`Sq::try_parse`], `FromStr`, [`QValue::parse`])
+//! accepts an optional sign, then decimal digits with at most one `.` and
+//! an optional exponent (`-12.5e-3`, `.5`, `5.`), or `0x`, `0o`, `0b`
+//! digits with at most one `.` and an optional binary exponent `p`
+//! (`0x1.8p3` is 12). Any number of digits is read; the exact value is
+//! rounded once (correct rounding). A huge exponent is a value, not a
+//! syntax error: `1e-999999` rounds like any tiny value. `FromStr` rounds
+//! to nearest with ties to even and reports a value out of range as an
+//! error. Errors ([`ParseError`]) give the kind and the byte position.
+//!
+//! ## Generic numeric code
+//!
+//! The bare types keep exact widening operators, so they implement only
+//! the `num-traits` traits whose meaning stays exact or explicit:
+//! `Bounded`, `FromPrimitive` (floats rounded to nearest, ties to even;
+//! `None` for NaN, ±∞ and out of range), `ToPrimitive` (to integers toward
+//! zero, as `f64::to_i32`; to floats correctly rounded), `NumCast`,
+//! `Saturating`, `CheckedNeg`, `WrappingNeg`. Traits such as `Zero`,
+//! `One`, `Num`, `Sum` need `Add<Output = Self>`, an operator that would
+//! round or overflow silently; for them wrap a value in [`Wrapped`] or
+//! [`Saturated`], whose `+ - * / %` stay in the format (`*` and `/` round
+//! to nearest, ties to even).
+//!
 //! ## Cargo features
 //!
 //! - `const-generics` (default): the `Q<I, F>` / `UQ<I, F>` aliases with
 //!   `usize` parameters. Without it, name the types as `Sq<U7, U8>`.
+//! - `serde`: human-readable formats carry the exact decimal text
+//!   (`"1.5"`), binary formats the stored integer; a value that does not
+//!   fit is an error when read, never wrapped or clamped.
 //!
 //! ## Safety-related use
 //!
@@ -66,22 +140,33 @@
 extern crate std;
 
 mod accumulate;
+mod convert;
 mod format;
+mod functions;
 mod kernel;
 pub mod layout;
+mod literal;
 mod ops;
 mod overflow;
 mod rounding;
+#[cfg(feature = "serde")]
+mod serde_impls;
 mod storage;
+mod text;
+mod traits;
 mod typed;
 mod value;
 mod width;
 
-pub use accumulate::{rescale_slice, AccumulateError};
+pub use accumulate::{AccumulateError, rescale_slice};
+pub use convert::{FloatError, PrimitiveInt};
 pub use format::{Format, FormatError, MAX_WIDTH};
+pub use functions::FunctionError;
 pub use overflow::{Overflow, RangeError, Side};
 pub use rounding::Rounding;
 pub use storage::{Storage, Wide};
+pub use text::{ParseError, ParseErrorKind};
+pub use traits::{Saturated, Wrapped};
 pub use typed::{QType, Sq, Uq, WidensTo};
 pub use value::QValue;
 

@@ -179,7 +179,10 @@ where
     fn neg(self) -> Self::Output {
         const {
             assert!(
-                agrees(<Sq<Add1<I>, F> as QType>::FORMAT, Format::negation(<Self as QType>::FORMAT)),
+                agrees(
+                    <Sq<Add1<I>, F> as QType>::FORMAT,
+                    Format::negation(<Self as QType>::FORMAT)
+                ),
                 "qbound internal error: typed result format disagrees with the format algebra"
             )
         };
@@ -199,7 +202,10 @@ where
     fn neg(self) -> Self::Output {
         const {
             assert!(
-                agrees(<Sq<I, F> as QType>::FORMAT, Format::negation(<Self as QType>::FORMAT)),
+                agrees(
+                    <Sq<I, F> as QType>::FORMAT,
+                    Format::negation(<Self as QType>::FORMAT)
+                ),
                 "qbound internal error: typed result format disagrees with the format algebra"
             )
         };
@@ -235,7 +241,12 @@ macro_rules! compare {
             /// Exact comparison of the values, whatever the formats.
             #[inline(always)]
             fn partial_cmp(&self, other: &$R<I2, F2>) -> Option<Ordering> {
-                Some(kernel::cmp(self.to_bits(), F1::U32, other.to_bits(), F2::U32))
+                Some(kernel::cmp(
+                    self.to_bits(),
+                    F1::U32,
+                    other.to_bits(),
+                    F2::U32,
+                ))
             }
         }
     };
@@ -290,7 +301,10 @@ macro_rules! assign_ops {
                 let rhs: Self = widen_into(rhs);
                 let f = kernel::sub_same(self.to_bits(), rhs.to_bits(), Self::FORMAT);
                 if cfg!(debug_assertions) && f.side.is_some() {
-                    panic!("qbound: attempt to subtract with overflow in {}", Self::FORMAT);
+                    panic!(
+                        "qbound: attempt to subtract with overflow in {}",
+                        Self::FORMAT
+                    );
                 }
                 *self = Self::from_bits_unchecked(f.wrapped);
             }
@@ -303,6 +317,11 @@ assign_ops!(Uq: UnsignedLayout);
 /// Lossless conversion used by the assignment operators.
 #[inline(always)]
 fn widen_into<S: WidensTo<T>, T: QType>(x: S) -> T {
-    let f = kernel::rescale::<_, T::Storage>(x.to_bits(), S::FORMAT.frac_bits(), T::FORMAT, crate::Rounding::Floor);
+    let f = kernel::rescale::<_, T::Storage>(
+        x.to_bits(),
+        S::FORMAT.frac_bits(),
+        T::FORMAT,
+        crate::Rounding::Floor,
+    );
     T::wrapping_from_bits(f.wrapped)
 }

@@ -126,7 +126,14 @@ impl Rounding {
     /// Whether to step the floor quotient up by one, given the class of the
     /// discarded part, the quotient's parity and the sign of the exact value.
     #[inline(always)]
-    pub(crate) fn rounds_up(self, exact: bool, vs_half: Ordering, frac64: u64, q_odd: bool, neg: bool) -> bool {
+    pub(crate) fn rounds_up(
+        self,
+        exact: bool,
+        vs_half: Ordering,
+        frac64: u64,
+        q_odd: bool,
+        neg: bool,
+    ) -> bool {
         // Written with non-short-circuit `&` / `|` so that the compiler can
         // keep the decision branch-free. The nearest modes need no `exact`
         // test: a residue at or above one half is never zero.

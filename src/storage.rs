@@ -131,11 +131,7 @@ impl Wide {
     #[inline]
     pub const fn to_i128(self) -> Option<i128> {
         let v = self.lo as i128;
-        if (v < 0) == self.neg {
-            Some(v)
-        } else {
-            None
-        }
+        if (v < 0) == self.neg { Some(v) } else { None }
     }
 
     /// The value as `u128`, if it fits.

@@ -97,13 +97,6 @@ macro_rules! typed_common {
             }
         }
 
-        impl<I: $layout<F>, F: Unsigned> fmt::Debug for $name<I, F> {
-            /// The stored bits and the format, e.g. `Q7.8(bits=25)`.
-            fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-                write!(f, "{}(bits={:?})", Self::FORMAT, self.bits)
-            }
-        }
-
         impl<I: $layout<F>, F: Unsigned> QType for $name<I, F> {
             type Storage = <I as $layout<F>>::Storage;
             const FORMAT: Format = Format::new_const($signed, I::U32, F::U32);
@@ -212,9 +205,9 @@ macro_rules! typed_common {
                 if v.format() != Self::FORMAT {
                     return None;
                 }
-                Some(Self::from_bits_unchecked(<Self as QType>::Storage::from_u128_bits(
-                    v.bits().low_bits(),
-                )))
+                Some(Self::from_bits_unchecked(
+                    <Self as QType>::Storage::from_u128_bits(v.bits().low_bits()),
+                ))
             }
 
             /// Round into the format of `T`, with a rounding mode and an
@@ -229,7 +222,8 @@ macro_rules! typed_common {
             #[inline(always)]
             #[track_caller]
             pub fn rescale<T: QType>(self, rounding: Rounding, overflow: Overflow) -> T {
-                let fitted = kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
+                let fitted =
+                    kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
                 T::wrapping_from_bits(fitted.resolve(T::FORMAT, overflow))
             }
 
@@ -244,7 +238,8 @@ macro_rules! typed_common {
             /// of the range the rounded value fell if it does not fit.
             #[inline(always)]
             pub fn try_rescale<T: QType>(self, rounding: Rounding) -> Result<T, RangeError> {
-                let fitted = kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
+                let fitted =
+                    kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
                 fitted.checked(T::FORMAT).map(T::wrapping_from_bits)
             }
 
@@ -255,7 +250,8 @@ macro_rules! typed_common {
             where
                 Self: WidensTo<T>,
             {
-                let fitted = kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, Rounding::Floor);
+                let fitted =
+                    kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, Rounding::Floor);
                 T::wrapping_from_bits(fitted.wrapped)
             }
 
@@ -268,7 +264,12 @@ macro_rules! typed_common {
             /// With [`Overflow::Panic`], if the rounded product does not fit.
             #[inline(always)]
             #[track_caller]
-            pub fn mul_rescale<R: QType, T: QType>(self, rhs: R, rounding: Rounding, overflow: Overflow) -> T {
+            pub fn mul_rescale<R: QType, T: QType>(
+                self,
+                rhs: R,
+                rounding: Rounding,
+                overflow: Overflow,
+            ) -> T {
                 let fitted = kernel::mul_rescale::<_, _, T::Storage>(
                     self.bits,
                     Self::FORMAT,
@@ -283,7 +284,11 @@ macro_rules! typed_common {
             /// The product rounded into the format of `T`, or an error if it
             /// does not fit.
             #[inline(always)]
-            pub fn try_mul_rescale<R: QType, T: QType>(self, rhs: R, rounding: Rounding) -> Result<T, RangeError> {
+            pub fn try_mul_rescale<R: QType, T: QType>(
+                self,
+                rhs: R,
+                rounding: Rounding,
+            ) -> Result<T, RangeError> {
                 let fitted = kernel::mul_rescale::<_, _, T::Storage>(
                     self.bits,
                     Self::FORMAT,
@@ -305,13 +310,19 @@ macro_rules! typed_common {
             #[inline(always)]
             #[must_use]
             pub fn wrapping_add(self, rhs: Self) -> Self {
-                Self::resolve(kernel::add_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Wrap)
+                Self::resolve(
+                    kernel::add_same(self.bits, rhs.bits, Self::FORMAT),
+                    Overflow::Wrap,
+                )
             }
             /// `self + rhs` in this format, clamped to the range.
             #[inline(always)]
             #[must_use]
             pub fn saturating_add(self, rhs: Self) -> Self {
-                Self::resolve(kernel::add_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Saturate)
+                Self::resolve(
+                    kernel::add_same(self.bits, rhs.bits, Self::FORMAT),
+                    Overflow::Saturate,
+                )
             }
             /// `self + rhs` in this format, or `None` on overflow.
             #[inline(always)]
@@ -332,13 +343,19 @@ macro_rules! typed_common {
             #[inline(always)]
             #[must_use]
             pub fn wrapping_sub(self, rhs: Self) -> Self {
-                Self::resolve(kernel::sub_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Wrap)
+                Self::resolve(
+                    kernel::sub_same(self.bits, rhs.bits, Self::FORMAT),
+                    Overflow::Wrap,
+                )
             }
             /// `self - rhs` in this format, clamped to the range.
             #[inline(always)]
             #[must_use]
             pub fn saturating_sub(self, rhs: Self) -> Self {
-                Self::resolve(kernel::sub_same(self.bits, rhs.bits, Self::FORMAT), Overflow::Saturate)
+                Self::resolve(
+                    kernel::sub_same(self.bits, rhs.bits, Self::FORMAT),
+                    Overflow::Saturate,
+                )
             }
             /// `self - rhs` in this format, or `None` on overflow.
             #[inline(always)]
@@ -366,7 +383,10 @@ macro_rules! typed_common {
             #[inline(always)]
             #[must_use]
             pub fn saturating_neg(self) -> Self {
-                Self::resolve(kernel::neg_same(self.bits, Self::FORMAT), Overflow::Saturate)
+                Self::resolve(
+                    kernel::neg_same(self.bits, Self::FORMAT),
+                    Overflow::Saturate,
+                )
             }
             /// `-self` in this format, or `None` on overflow.
             #[inline(always)]
@@ -394,7 +414,10 @@ macro_rules! typed_common {
             #[inline(always)]
             #[must_use]
             pub fn saturating_abs(self) -> Self {
-                Self::resolve(kernel::abs_same(self.bits, Self::FORMAT), Overflow::Saturate)
+                Self::resolve(
+                    kernel::abs_same(self.bits, Self::FORMAT),
+                    Overflow::Saturate,
+                )
             }
             /// `|self|` in this format, or `None` on overflow.
             #[inline(always)]
@@ -501,7 +524,8 @@ impl<I: SignedLayout<F>, F: Unsigned> Sq<I, F> {
 }
 
 impl<I: UnsignedLayout<F>, F: Unsigned> Uq<I, F> {
-    const MIN_BITS: <I as UnsignedLayout<F>>::Storage = <<I as UnsignedLayout<F>>::Storage as Storage>::ZERO;
+    const MIN_BITS: <I as UnsignedLayout<F>>::Storage =
+        <<I as UnsignedLayout<F>>::Storage as Storage>::ZERO;
 }
 
 typed_common!(Sq, SignedLayout, true);

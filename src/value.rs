@@ -25,7 +25,7 @@ use crate::storage::{Storage, Wide};
 /// assert_eq!(r, p);
 /// # Ok::<(), Box<dyn core::error::Error>>(())
 /// ```
-#[derive(Clone, Copy, Debug)]
+#[derive(Clone, Copy)]
 pub struct QValue {
     format: Format,
     bits: Wide,
@@ -57,6 +57,7 @@ macro_rules! with_storage {
         }
     };
 }
+pub(crate) use with_storage;
 
 impl QValue {
     pub(crate) const fn from_wide_unchecked(format: Format, bits: Wide) -> QValue {
@@ -266,9 +267,12 @@ impl QValue {
     pub fn exact_add(self, rhs: QValue) -> Result<QValue, FormatError> {
         let dst = Format::sum(self.format, rhs.format)?;
         let (fa, fb) = (self.format.frac_bits(), rhs.format.frac_bits());
-        Ok(with_bits!(self, |a| with_bits!(rhs, |b| with_storage!(dst, D => {
-            QValue { format: dst, bits: kernel::add::<_, _, D>(a, fa, b, fb, dst).to_wide() }
-        }))))
+        Ok(with_bits!(self, |a| with_bits!(
+            rhs,
+            |b| with_storage!(dst, D => {
+                QValue { format: dst, bits: kernel::add::<_, _, D>(a, fa, b, fb, dst).to_wide() }
+            })
+        )))
     }
 
     /// The exact difference, in the format [`Format::difference`] gives.
@@ -283,9 +287,12 @@ impl QValue {
     pub fn exact_sub(self, rhs: QValue) -> Result<QValue, FormatError> {
         let dst = Format::difference(self.format, rhs.format)?;
         let (fa, fb) = (self.format.frac_bits(), rhs.format.frac_bits());
-        Ok(with_bits!(self, |a| with_bits!(rhs, |b| with_storage!(dst, D => {
-            QValue { format: dst, bits: kernel::sub::<_, _, D>(a, fa, b, fb, dst).to_wide() }
-        }))))
+        Ok(with_bits!(self, |a| with_bits!(
+            rhs,
+            |b| with_storage!(dst, D => {
+                QValue { format: dst, bits: kernel::sub::<_, _, D>(a, fa, b, fb, dst).to_wide() }
+            })
+        )))
     }
 
     /// The exact product, in the format [`Format::product`] gives.
@@ -298,9 +305,12 @@ impl QValue {
     /// ```
     pub fn exact_mul(self, rhs: QValue) -> Result<QValue, FormatError> {
         let dst = Format::product(self.format, rhs.format)?;
-        Ok(with_bits!(self, |a| with_bits!(rhs, |b| with_storage!(dst, D => {
-            QValue { format: dst, bits: kernel::mul::<_, _, D>(a, b).to_wide() }
-        }))))
+        Ok(with_bits!(self, |a| with_bits!(
+            rhs,
+            |b| with_storage!(dst, D => {
+                QValue { format: dst, bits: kernel::mul::<_, _, D>(a, b).to_wide() }
+            })
+        )))
     }
 
     /// The exact negation, in the format [`Format::negation`] gives.
@@ -334,7 +344,13 @@ impl QValue {
     /// ```
     #[track_caller]
     #[must_use]
-    pub fn mul_rescale(self, rhs: QValue, dst: Format, rounding: Rounding, overflow: Overflow) -> QValue {
+    pub fn mul_rescale(
+        self,
+        rhs: QValue,
+        dst: Format,
+        rounding: Rounding,
+        overflow: Overflow,
+    ) -> QValue {
         let (fa, fb) = (self.format, rhs.format);
         with_bits!(self, |a| with_bits!(rhs, |b| with_storage!(dst, D => {
             Self::finish(kernel::mul_rescale::<_, _, D>(a, fa, b, fb, dst, rounding), dst, overflow)
@@ -350,7 +366,12 @@ impl QValue {
     /// assert!(m.try_mul_rescale(m, f, Rounding::Floor).is_err()); // (-1)² = 1 does not fit
     /// # Ok::<(), qbound::FormatError>(())
     /// ```
-    pub fn try_mul_rescale(self, rhs: QValue, dst: Format, rounding: Rounding) -> Result<QValue, RangeError> {
+    pub fn try_mul_rescale(
+        self,
+        rhs: QValue,
+        dst: Format,
+        rounding: Rounding,
+    ) -> Result<QValue, RangeError> {
         let (fa, fb) = (self.format, rhs.format);
         with_bits!(self, |a| with_bits!(rhs, |b| with_storage!(dst, D => {
             Self::finish_checked(kernel::mul_rescale::<_, _, D>(a, fa, b, fb, dst, rounding), dst)

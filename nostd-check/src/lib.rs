@@ -7,7 +7,7 @@
 
 use core::panic::PanicInfo;
 use qbound::{Overflow, Rounding, Sq};
-use typenum::{U0, U15, U3, U30};
+use typenum::{U0, U3, U15, U30};
 
 type Sample = Sq<U0, U15>;
 

@@ -2,7 +2,7 @@
 //! `widen` (fewer integer bits, fewer fraction bits, signed into
 //! unsigned), and a same-format method called with another format. The
 //! `.stderr` files hold the diagnostics a user sees; regenerate them with
-//! `TRYBUILD=overwrite cargo test --test all compile_fail` after a
+//! `TRYBUILD=overwrite cargo test -p qbound --test all compile_fail` after a
 //! deliberate change to the messages, and read them.
 
 #[test]

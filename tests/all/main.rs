@@ -8,8 +8,10 @@ mod common;
 
 mod arith;
 mod compile_fail;
+mod convert;
 mod exhaustive;
 mod families;
+mod functions;
 mod nostd;
 mod references;
 mod rescale;

@@ -1,6 +1,7 @@
 //! The `no_std` proof: build `nostd-check` (a `#![no_std]` static library
 //! with its own panic handler that uses qbound's multiply, rescale and
-//! comparison) with `panic = abort`. If anything in qbound's dependency
+//! comparison) with `panic = abort` (set in its own
+//! workspace's profiles). If anything in qbound's dependency
 //! tree pulled in `std`, its panic handler would clash with the crate's own
 //! and the build would fail.
 
@@ -12,16 +13,12 @@ fn nostd_check_crate_builds() {
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
     let out = Command::new(env!("CARGO"))
         .current_dir(root)
-        .args([
-            "build",
-            "-p",
-            "qbound-nostd-check",
-            "--release",
-            "--target-dir",
-        ])
+        .args(["build", "--release", "--manifest-path"])
+        .arg(root.join("nostd-check").join("Cargo.toml"))
+        .arg("--target-dir")
         .arg(root.join("target").join("nostd"))
-        .env("RUSTFLAGS", "-C panic=abort")
         .env_remove("CARGO_TARGET_DIR")
+        .env_remove("RUSTFLAGS")
         .output()
         .expect("cargo runs");
     assert!(
