@@ -42,6 +42,8 @@
 //! with the same rules, assuming independent operands. Saturation and wrap
 //! are outside the model (their moments are taken as 0).
 
+use std::collections::HashMap;
+
 use qbound::{Format, Overflow, Rounding};
 use rug::Rational;
 
@@ -343,6 +345,7 @@ pub fn analyze_with(path: &Datapath, opts: &AnalysisOptions) -> Analysis {
     }
     let mut w = Work {
         forms: (0..n).map(|_| None).collect(),
+        formats: HashMap::new(),
         remaining,
         owners: Owners::new(),
         max_terms: opts.max_terms.max(2),
@@ -366,12 +369,22 @@ pub fn analyze_with(path: &Datapath, opts: &AnalysisOptions) -> Analysis {
 /// consumers, and how many consumers each has left.
 struct Work {
     forms: Vec<Option<Form>>,
+    /// Range and step of each format met so far.
+    formats: HashMap<Format, (Interval, Rational)>,
     remaining: Vec<u32>,
     owners: Owners,
     max_terms: usize,
 }
 
 impl Work {
+    /// `format_range(f)` and `ulp(f)`, computed once per format.
+    fn format(&mut self, f: Format) -> (Interval, Rational) {
+        self.formats
+            .entry(f)
+            .or_insert_with(|| (format_range(f), ulp(f)))
+            .clone()
+    }
+
     /// The form of operand `x` for one consumer: moved out at its last use,
     /// copied before. Returns the form and whether it was moved.
     fn operand(&mut self, x: NodeId) -> (Form, bool) {
@@ -437,12 +450,13 @@ struct Clamp {
 
 fn clamp_step(
     f: Format,
+    fr: &Interval,
     mode: Overflow,
     u: &Interval,
     ideal: &Interval,
     pre_err: &Interval,
 ) -> Clamp {
-    let fr = format_range(f);
+    let fr = fr.clone();
     let lo_lim = if mode == Overflow::SaturateSymmetric && f.is_signed() {
         Rational::from(-&fr.hi)
     } else {
@@ -573,7 +587,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
     let nd = &path.nodes()[i];
     let f = nd.format;
     let label = path.label(NodeId(i));
-    let fr = format_range(f);
+    let (fr, q_f) = w.format(f);
     let mut overflow = OverflowInfo::default();
     let mut rounding_source = None;
     let mut collapse: Option<Interval> = None;
@@ -585,8 +599,8 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                     floor_to_grid(hi, f.frac_bits()),
                 );
                 // Discrete uniform over the N grid points: variance (N² - 1)q²/12.
-                let q = ulp(f).to_f64();
-                let n = (Rational::from(&r.hi - &r.lo) / ulp(f)).to_f64() + 1.0;
+                let q = q_f.to_f64();
+                let n = (Rational::from(&r.hi - &r.lo) / &q_f).to_f64() + 1.0;
                 let mean = (r.lo.to_f64() + r.hi.to_f64()) / 2.0;
                 (
                     r.clone(),
@@ -600,7 +614,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                 let ideal = Interval::new(lo.clone(), hi.clone());
                 let (ulo, uhi) = rounded_range(&ideal, f.frac_bits(), *mode);
                 let u = Interval::new(ulo, uhi);
-                let q = ulp(f);
+                let q = q_f.clone();
                 let eps = rounding_interval(*mode, &Rational::new(), &q, Sign::of(&ideal));
                 let (m, v) = rounding_moments(*mode, 0.0, q.to_f64(), fraction_negative(&ideal));
                 let s = add_source(
@@ -616,7 +630,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                 rounding_source = Some(s);
                 let mut form = Form::source(s, &a.sources, &mut w.owners);
                 let pre_err = form.interval();
-                let c = clamp_step(f, Overflow::Saturate, &u, &ideal, &pre_err);
+                let c = clamp_step(f, &fr, Overflow::Saturate, &u, &ideal, &pre_err);
                 if let Some((kind, eps)) = c.source {
                     let s2 = add_source(
                         a,
@@ -760,8 +774,8 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
             };
             let u = Interval::new(ulo, uhi);
             if sf.frac_bits() > f.frac_bits() {
-                let q0 = ulp(sf);
-                let q = ulp(f);
+                let q0 = w.format(sf).1;
+                let q = q_f.clone();
                 let eps = rounding_interval(*rounding, &q0, &q, Sign::of(&nx.actual));
                 let (m, v) = rounding_moments(
                     *rounding,
@@ -790,7 +804,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
             let nx = &a.nodes[src.0];
             let fi = form.interval();
             let pre_err = fi.intersect(&u.sub(&nx.ideal)).unwrap_or(fi);
-            let c = clamp_step(f, *mode, &u, &nx.ideal, &pre_err);
+            let c = clamp_step(f, &fr, *mode, &u, &nx.ideal, &pre_err);
             if let Some((kind, eps)) = c.source {
                 let what = if kind == SourceKind::Wrap {
                     "wrap-around"

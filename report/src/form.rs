@@ -297,7 +297,12 @@ impl Form {
         }
         let ff = factor.to_f64();
         for (&s, t) in &other.terms {
-            let coef = t.coef.scale(&factor);
+            let unit = factor == 1;
+            let coef = if unit {
+                t.coef.clone()
+            } else {
+                t.coef.scale(&factor)
+            };
             let (gm, gv) = (t.gm * ff, t.gv * ff * ff);
             if let Some(old) = self.terms.remove(&s) {
                 self.add_term_sums(&old, false);
@@ -306,7 +311,21 @@ impl Form {
                     owners.count[s] -= 1;
                 }
             } else {
-                self.insert(s, coef, gm, gv, sources);
+                // A point factor scales `coef × ε` exactly: no new product.
+                let nt = WTerm {
+                    coef,
+                    iv: if unit {
+                        t.iv.clone()
+                    } else {
+                        t.iv.scale(&factor)
+                    },
+                    gm,
+                    gv,
+                    m: t.m * ff,
+                    v: t.v * ff * ff,
+                };
+                self.add_term_sums(&nt, true);
+                self.terms.insert(s, nt);
                 if !consumed {
                     owners.count[s] += 1;
                 }
