@@ -350,9 +350,9 @@ pub fn analyze_with(path: &Datapath, opts: &AnalysisOptions) -> Analysis {
         owners: Owners::new(),
         max_terms: opts.max_terms.max(2),
     };
-    for i in 0..n {
+    for (i, out) in is_output.iter().enumerate() {
         let (mut na, form) = node(path, &mut a, &mut w, i);
-        if is_output[i] || w.remaining[i] == 0 {
+        if *out || w.remaining[i] == 0 {
             na.form = form.to_affine();
         }
         if w.remaining[i] > 0 {

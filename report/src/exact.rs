@@ -239,12 +239,11 @@ pub fn rational_to_qvalue(x: &Rational, format: Format) -> Option<QValue> {
 /// need both neighbours use [`floor_to_grid`] and [`ceil_to_grid`].
 #[must_use]
 pub fn round_to_grid(x: &Rational, frac: u32, mode: Rounding) -> Rational {
-    let step = pow2(-i64::from(frac));
-    let scaled = Rational::from(x / &step);
-    let (r, fl) = scaled.fract_floor(Integer::new()); // r in [0, 1)
-    if r.is_zero() {
+    let scaled = Rational::from(x << frac);
+    if *scaled.denom() == 1 {
         return x.clone();
     }
+    let (r, fl) = scaled.fract_floor(Integer::new()); // r in (0, 1)
     let half = Rational::from((1, 2));
     let neg = x.is_negative();
     let odd = fl.is_odd();
@@ -259,7 +258,7 @@ pub fn round_to_grid(x: &Rational, frac: u32, mode: Rounding) -> Rational {
         Rounding::ToOdd => !odd,
     };
     let q = if up { fl + 1u32 } else { fl };
-    Rational::from(q) * step
+    Rational::from(q) >> frac
 }
 
 /// The largest multiple of `2^-frac` that is `<= x`.

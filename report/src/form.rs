@@ -164,6 +164,9 @@ impl Form {
 
     /// The exact interval of the form.
     pub(crate) fn interval(&self) -> Interval {
+        if self.scale == 1 {
+            return Interval::new(self.sum_lo.clone(), self.sum_hi.clone());
+        }
         let a = Rational::from(&self.sum_lo * &self.scale);
         let b = Rational::from(&self.sum_hi * &self.scale);
         if self.scale.is_negative() {
@@ -186,7 +189,7 @@ impl Form {
     /// form's scaled units) with moments `(m, v)` to the remainder.
     pub(crate) fn add_rem(&mut self, iv: &Interval, m: f64, v: f64) {
         let inv = Rational::from(self.scale.recip_ref());
-        let iv = iv.scale(&inv);
+        let iv = if inv == 1 { iv.clone() } else { iv.scale(&inv) };
         let kf = inv.to_f64();
         self.sum_lo += &iv.lo;
         self.sum_hi += &iv.hi;
@@ -291,7 +294,11 @@ impl Form {
         sources: &[Source],
         owners: &mut Owners,
     ) {
-        let mut factor = Rational::from(&other.scale / &self.scale);
+        let mut factor = if other.scale == self.scale {
+            Rational::from(1)
+        } else {
+            Rational::from(&other.scale / &self.scale)
+        };
         if negate {
             factor = -factor;
         }
@@ -331,10 +338,12 @@ impl Form {
                 }
             }
         }
-        let r = other.rem.scale(&factor);
-        self.sum_lo += &r.lo;
-        self.sum_hi += &r.hi;
-        self.rem = self.rem.add(&r);
+        if !other.rem.is_zero() {
+            let r = other.rem.scale(&factor);
+            self.sum_lo += &r.lo;
+            self.sum_hi += &r.hi;
+            self.rem = self.rem.add(&r);
+        }
         self.rem_mean += other.rem_mean * ff;
         self.rem_var += other.rem_var * ff * ff;
         self.scan(owners);
