@@ -42,10 +42,13 @@
 //! with the same rules, assuming independent operands. Saturation and wrap
 //! are outside the model (their moments are taken as 0).
 
+use std::collections::HashMap;
+
 use qbound::{Format, Overflow, Rounding};
 use rug::Rational;
 
 use crate::exact::{Interval, ceil_to_grid, floor_to_grid, format_range, pow2, round_to_grid, ulp};
+use crate::form::{Form, Owners};
 use crate::model::{Datapath, InputKind, NodeId, Op};
 use crate::result::SourceKind;
 
@@ -109,27 +112,6 @@ pub struct Affine {
 }
 
 impl Affine {
-    fn zero() -> Affine {
-        Affine {
-            terms: Vec::new(),
-            rem: Interval::zero(),
-            rem_mean: 0.0,
-            rem_var: 0.0,
-        }
-    }
-
-    fn source(src: usize) -> Affine {
-        Affine {
-            terms: vec![Term {
-                src,
-                coef: Interval::point(Rational::from(1)),
-                gm: 1.0,
-                gv: 0.0,
-            }],
-            ..Affine::zero()
-        }
-    }
-
     /// The exact interval of the form.
     #[must_use]
     pub fn interval(&self, sources: &[Source]) -> Interval {
@@ -152,145 +134,6 @@ impl Affine {
         }
         (mean, var)
     }
-
-    /// `self + sign·other`, merging terms of the same source.
-    fn combine(&self, other: &Affine, negate: bool) -> Affine {
-        let mut terms = Vec::with_capacity(self.terms.len() + other.terms.len());
-        let (mut i, mut j) = (0, 0);
-        let flip = |t: &Term| -> Term {
-            if negate {
-                Term {
-                    src: t.src,
-                    coef: t.coef.neg(),
-                    gm: -t.gm,
-                    gv: t.gv,
-                }
-            } else {
-                t.clone()
-            }
-        };
-        while i < self.terms.len() || j < other.terms.len() {
-            let a = self.terms.get(i);
-            let b = other.terms.get(j);
-            match (a, b) {
-                (Some(x), Some(y)) if x.src == y.src => {
-                    let y = flip(y);
-                    terms.push(Term {
-                        src: x.src,
-                        coef: x.coef.add(&y.coef),
-                        gm: x.gm + y.gm,
-                        gv: x.gv + y.gv,
-                    });
-                    i += 1;
-                    j += 1;
-                }
-                (Some(x), Some(y)) if x.src < y.src => {
-                    terms.push(x.clone());
-                    i += 1;
-                }
-                (Some(x), None) => {
-                    terms.push(x.clone());
-                    i += 1;
-                }
-                (_, Some(y)) => {
-                    terms.push(flip(y));
-                    j += 1;
-                }
-                (None, None) => unreachable!(),
-            }
-        }
-        Affine {
-            terms,
-            rem: if negate {
-                self.rem.sub(&other.rem)
-            } else {
-                self.rem.add(&other.rem)
-            },
-            rem_mean: if negate {
-                self.rem_mean - other.rem_mean
-            } else {
-                self.rem_mean + other.rem_mean
-            },
-            rem_var: self.rem_var + other.rem_var,
-        }
-    }
-
-    /// Multiply by an exact number.
-    fn scale_exact(&self, k: &Rational) -> Affine {
-        let kf = k.to_f64();
-        Affine {
-            terms: self
-                .terms
-                .iter()
-                .map(|t| Term {
-                    src: t.src,
-                    coef: t.coef.scale(k),
-                    gm: t.gm * kf,
-                    gv: t.gv * kf * kf,
-                })
-                .collect(),
-            rem: self.rem.scale(k),
-            rem_mean: self.rem_mean * kf,
-            rem_var: self.rem_var * kf * kf,
-        }
-    }
-
-    /// Multiply by a signal with range `v` and moments `(vm, vv)`.
-    fn scale_signal(&self, v: &Interval, vm: f64, vv: f64) -> Affine {
-        if v.lo == v.hi {
-            return self.scale_exact(&v.lo);
-        }
-        let e2 = vv + vm * vm;
-        let mom = |gm: f64, gv: f64| -> (f64, f64) {
-            let m = vm * gm;
-            (m, (e2 * (gv + gm * gm) - m * m).max(0.0))
-        };
-        Affine {
-            terms: self
-                .terms
-                .iter()
-                .map(|t| {
-                    let (gm, gv) = mom(t.gm, t.gv);
-                    Term {
-                        src: t.src,
-                        coef: t.coef.mul(v),
-                        gm,
-                        gv,
-                    }
-                })
-                .collect(),
-            rem: self.rem.mul(v),
-            rem_mean: vm * self.rem_mean,
-            rem_var: (e2 * (self.rem_var + self.rem_mean * self.rem_mean)
-                - (vm * self.rem_mean).powi(2))
-            .max(0.0),
-        }
-    }
-
-    /// Fold the terms with the smallest contribution into the remainder
-    /// until at most `max` remain.
-    fn cap(&mut self, max: usize, sources: &[Source]) {
-        if self.terms.len() <= max {
-            return;
-        }
-        let mut keyed: Vec<(Rational, Term)> = self
-            .terms
-            .drain(..)
-            .map(|t| (term_interval(&t, sources).max_abs(), t))
-            .collect();
-        keyed.sort_by(|a, b| b.0.cmp(&a.0));
-        // Fold down to half the cap, so that folding (a sort) happens once
-        // per max/2 new sources, not at every node.
-        for (_, t) in keyed.drain(max.div_ceil(2)..) {
-            self.rem = self.rem.add(&term_interval(&t, sources));
-            let (m, v) = term_moments(&t, &sources[t.src]);
-            self.rem_mean += m;
-            self.rem_var += v;
-        }
-        let mut kept: Vec<Term> = keyed.into_iter().map(|(_, t)| t).collect();
-        kept.sort_by_key(|t| t.src);
-        self.terms = kept;
-    }
 }
 
 /// The exact interval `coef × ε_s` of one term.
@@ -302,9 +145,7 @@ pub fn term_interval(t: &Term, sources: &[Source]) -> Interval {
 /// Mean and variance of `g·ε` for independent `g` and `ε`:
 /// `E[gε] = E[g]E[ε]`, `Var = E[g²]E[ε²] - (E[g]E[ε])²`.
 fn term_moments(t: &Term, s: &Source) -> (f64, f64) {
-    let m = t.gm * s.mean;
-    let v = (t.gv + t.gm * t.gm) * (s.var + s.mean * s.mean) - m * m;
-    (m, v.max(0.0))
+    crate::form::moments(t.gm, t.gv, s)
 }
 
 /// The sign of the values being rounded, when the range tells it.
@@ -487,15 +328,97 @@ pub fn analyze(path: &Datapath) -> Analysis {
 /// Analyse `path`.
 #[must_use]
 pub fn analyze_with(path: &Datapath, opts: &AnalysisOptions) -> Analysis {
+    let n = path.nodes().len();
     let mut a = Analysis {
-        nodes: Vec::with_capacity(path.nodes().len()),
+        nodes: Vec::with_capacity(n),
         sources: Vec::new(),
     };
-    for i in 0..path.nodes().len() {
-        let n = node(path, &mut a, i, opts);
-        a.nodes.push(n);
+    let mut remaining = vec![0u32; n];
+    for nd in path.nodes() {
+        for x in nd.op.operands() {
+            remaining[x.0] += 1;
+        }
+    }
+    let mut is_output = vec![false; n];
+    for o in path.outputs() {
+        is_output[o.node.0] = true;
+    }
+    let mut w = Work {
+        forms: (0..n).map(|_| None).collect(),
+        formats: HashMap::new(),
+        remaining,
+        owners: Owners::new(),
+        max_terms: opts.max_terms.max(2),
+    };
+    for (i, out) in is_output.iter().enumerate() {
+        let (mut na, form) = node(path, &mut a, &mut w, i);
+        if *out || w.remaining[i] == 0 {
+            na.form = form.to_affine();
+        }
+        if w.remaining[i] > 0 {
+            w.forms[i] = Some(form);
+        } else {
+            form.release(&mut w.owners);
+        }
+        a.nodes.push(na);
     }
     a
+}
+
+/// The working state of one analysis: the forms of nodes that still have
+/// consumers, and how many consumers each has left.
+struct Work {
+    forms: Vec<Option<Form>>,
+    /// Range and step of each format met so far.
+    formats: HashMap<Format, (Interval, Rational)>,
+    remaining: Vec<u32>,
+    owners: Owners,
+    max_terms: usize,
+}
+
+impl Work {
+    /// `format_range(f)` and `ulp(f)`, computed once per format.
+    fn format(&mut self, f: Format) -> (Interval, Rational) {
+        self.formats
+            .entry(f)
+            .or_insert_with(|| (format_range(f), ulp(f)))
+            .clone()
+    }
+
+    /// The form of operand `x` for one consumer: moved out at its last use,
+    /// copied before. Returns the form and whether it was moved.
+    fn operand(&mut self, x: NodeId) -> (Form, bool) {
+        self.remaining[x.0] -= 1;
+        if self.remaining[x.0] == 0 {
+            (self.forms[x.0].take().expect("form of a used node"), true)
+        } else {
+            let f = self.forms[x.0].as_mut().expect("form of a used node");
+            (f.copy(self.max_terms, &mut self.owners), false)
+        }
+    }
+
+    /// `x ± y`, merging the smaller form into the larger.
+    fn sum(&mut self, x: NodeId, y: NodeId, negate: bool, sources: &[Source]) -> Form {
+        let (fx, _) = self.operand(x);
+        let (fy, _) = self.operand(y);
+        self.merge(fx, fy, negate, sources)
+    }
+
+    /// `fx ± fy` for two owned forms.
+    fn merge(&mut self, fx: Form, fy: Form, negate: bool, sources: &[Source]) -> Form {
+        if fy.len() > fx.len() {
+            let mut big = fy;
+            if negate {
+                big.scale_exact(&Rational::from(-1), &mut self.owners);
+            }
+            big.merge(&fx, false, true, sources, &mut self.owners);
+            big
+        } else {
+            let mut big = fx;
+            big.merge(&fy, negate, true, sources, &mut self.owners);
+            big
+        }
+    }
 }
 
 fn fraction_negative(r: &Interval) -> f64 {
@@ -527,12 +450,13 @@ struct Clamp {
 
 fn clamp_step(
     f: Format,
+    fr: &Interval,
     mode: Overflow,
     u: &Interval,
     ideal: &Interval,
     pre_err: &Interval,
 ) -> Clamp {
-    let fr = format_range(f);
+    let fr = fr.clone();
     let lo_lim = if mode == Overflow::SaturateSymmetric && f.is_signed() {
         Rational::from(-&fr.hi)
     } else {
@@ -624,8 +548,10 @@ fn clamp_step(
     }
 }
 
+#[allow(clippy::too_many_arguments)]
 fn add_source(
     a: &mut Analysis,
+    w: &mut Work,
     node: usize,
     kind: SourceKind,
     eps: Interval,
@@ -641,19 +567,31 @@ fn add_source(
         var,
         label,
     });
+    w.owners.push();
     a.sources.len() - 1
 }
 
+/// The remainder-only public form of a node whose terms moved on to its
+/// consumers: `e ∈ error`.
+fn summary_form(error: &Interval, mean: f64, var: f64) -> Affine {
+    Affine {
+        terms: Vec::new(),
+        rem: error.clone(),
+        rem_mean: mean,
+        rem_var: var,
+    }
+}
+
 #[allow(clippy::too_many_lines)]
-fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> NodeAnalysis {
+fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnalysis, Form) {
     let nd = &path.nodes()[i];
     let f = nd.format;
     let label = path.label(NodeId(i));
-    let fr = format_range(f);
+    let (fr, q_f) = w.format(f);
     let mut overflow = OverflowInfo::default();
     let mut rounding_source = None;
     let mut collapse: Option<Interval> = None;
-    let (ideal, actual, mut form, sm, sv) = match &nd.op {
+    let (ideal, actual, form, sm, sv) = match &nd.op {
         Op::Input { lo, hi, kind } => match kind {
             InputKind::Exact => {
                 let r = Interval::new(
@@ -661,13 +599,13 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                     floor_to_grid(hi, f.frac_bits()),
                 );
                 // Discrete uniform over the N grid points: variance (N² - 1)q²/12.
-                let q = ulp(f).to_f64();
-                let n = (Rational::from(&r.hi - &r.lo) / ulp(f)).to_f64() + 1.0;
+                let q = q_f.to_f64();
+                let n = (Rational::from(&r.hi - &r.lo) / &q_f).to_f64() + 1.0;
                 let mean = (r.lo.to_f64() + r.hi.to_f64()) / 2.0;
                 (
                     r.clone(),
                     r,
-                    Affine::zero(),
+                    Form::zero(),
                     mean,
                     (n * n - 1.0) * q * q / 12.0,
                 )
@@ -676,11 +614,12 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                 let ideal = Interval::new(lo.clone(), hi.clone());
                 let (ulo, uhi) = rounded_range(&ideal, f.frac_bits(), *mode);
                 let u = Interval::new(ulo, uhi);
-                let q = ulp(f);
+                let q = q_f.clone();
                 let eps = rounding_interval(*mode, &Rational::new(), &q, Sign::of(&ideal));
                 let (m, v) = rounding_moments(*mode, 0.0, q.to_f64(), fraction_negative(&ideal));
                 let s = add_source(
                     a,
+                    w,
                     i,
                     SourceKind::InputQuantization,
                     eps,
@@ -689,12 +628,13 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                     format!("quantization of input {label} ({} into {f})", mode.name()),
                 );
                 rounding_source = Some(s);
-                let mut form = Affine::source(s);
-                let pre_err = form.interval(&a.sources);
-                let c = clamp_step(f, Overflow::Saturate, &u, &ideal, &pre_err);
+                let mut form = Form::source(s, &a.sources, &mut w.owners);
+                let pre_err = form.interval();
+                let c = clamp_step(f, &fr, Overflow::Saturate, &u, &ideal, &pre_err);
                 if let Some((kind, eps)) = c.source {
                     let s2 = add_source(
                         a,
+                        w,
                         i,
                         kind,
                         eps,
@@ -702,24 +642,26 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                         0.0,
                         format!("saturation of input {label}"),
                     );
-                    form = form.combine(&Affine::source(s2), false);
+                    let f2 = Form::source(s2, &a.sources, &mut w.owners);
+                    form = w.merge(form, f2, false, &a.sources);
                 }
                 overflow = c.info;
                 collapse = c.collapse;
                 let mean = (lo.to_f64() + hi.to_f64()) / 2.0;
-                let w = (hi.to_f64() - lo.to_f64()).abs();
-                (ideal, c.actual, form, mean, w * w / 12.0)
+                let wd = (hi.to_f64() - lo.to_f64()).abs();
+                (ideal, c.actual, form, mean, wd * wd / 12.0)
             }
         },
         Op::Const { value, rounding } => {
             let q = round_to_grid(value, f.frac_bits(), *rounding);
             let d = Rational::from(&q - value);
             let form = if d.is_zero() {
-                Affine::zero()
+                Form::zero()
             } else {
                 let df = d.to_f64();
                 let s = add_source(
                     a,
+                    w,
                     i,
                     SourceKind::Constant,
                     Interval::point(d.clone()),
@@ -727,7 +669,7 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                     0.0,
                     format!("constant {label} = {} in {f}", decimal_text(value)),
                 );
-                Affine::source(s)
+                Form::source(s, &a.sources, &mut w.owners)
             };
             (
                 Interval::point(value.clone()),
@@ -738,8 +680,9 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
             )
         }
         Op::Add(x, y) | Op::Sub(x, y) => {
-            let (nx, ny) = (&a.nodes[x.0], &a.nodes[y.0]);
             let sub = matches!(nd.op, Op::Sub(..));
+            let form = w.sum(*x, *y, sub, &a.sources);
+            let (nx, ny) = (&a.nodes[x.0], &a.nodes[y.0]);
             let (ideal, actual) = if sub {
                 (nx.ideal.sub(&ny.ideal), nx.actual.sub(&ny.actual))
             } else {
@@ -750,59 +693,66 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
             } else {
                 nx.signal_mean + ny.signal_mean
             };
-            (
-                ideal,
-                actual,
-                nx.form.combine(&ny.form, sub),
-                m,
-                nx.signal_var + ny.signal_var,
-            )
+            (ideal, actual, form, m, nx.signal_var + ny.signal_var)
         }
         Op::Neg(x) => {
+            let (mut form, _) = w.operand(*x);
+            form.scale_exact(&Rational::from(-1), &mut w.owners);
             let nx = &a.nodes[x.0];
             (
                 nx.ideal.neg(),
                 nx.actual.neg(),
-                nx.form.scale_exact(&Rational::from(-1)),
+                form,
                 -nx.signal_mean,
                 nx.signal_var,
             )
         }
         Op::Shift(x, k) => {
-            let nx = &a.nodes[x.0];
+            let (mut form, _) = w.operand(*x);
             let p = pow2(i64::from(*k));
+            form.scale_exact(&p, &mut w.owners);
+            let nx = &a.nodes[x.0];
             let pf = p.to_f64();
             (
                 nx.ideal.scale(&p),
                 nx.actual.scale(&p),
-                nx.form.scale_exact(&p),
+                form,
                 nx.signal_mean * pf,
                 nx.signal_var * pf * pf,
             )
         }
         Op::Mul(x, y) => {
+            let (mut fx, _) = w.operand(*x);
+            let (mut fy, _) = w.operand(*y);
             let (nx, ny) = (&a.nodes[x.0], &a.nodes[y.0]);
             let (ideal, actual) = if x == y {
                 (square(&nx.ideal), square(&nx.actual))
             } else {
                 (nx.ideal.mul(&ny.ideal), nx.actual.mul(&ny.actual))
             };
+            let both = !fx.is_zero() && !fy.is_zero();
             // e = v_x·e_y + v_y·e_x + e_x·e_y
-            let mut form = ny
-                .form
-                .scale_signal(&nx.ideal, nx.signal_mean, nx.signal_var)
-                .combine(
-                    &nx.form
-                        .scale_signal(&ny.ideal, ny.signal_mean, ny.signal_var),
-                    false,
-                );
-            if (!nx.form.terms.is_empty() || !nx.form.rem.is_zero())
-                && (!ny.form.terms.is_empty() || !ny.form.rem.is_zero())
-            {
-                form.rem = form.rem.add(&nx.error.mul(&ny.error));
-                form.rem_mean += nx.err_mean * ny.err_mean;
+            fy.scale_signal(
+                &nx.ideal,
+                nx.signal_mean,
+                nx.signal_var,
+                w.max_terms,
+                &a.sources,
+                &mut w.owners,
+            );
+            fx.scale_signal(
+                &ny.ideal,
+                ny.signal_mean,
+                ny.signal_var,
+                w.max_terms,
+                &a.sources,
+                &mut w.owners,
+            );
+            let mut form = w.merge(fy, fx, false, &a.sources);
+            if both {
+                let m = nx.err_mean * ny.err_mean;
                 let e2 = (nx.err_var + nx.err_mean.powi(2)) * (ny.err_var + ny.err_mean.powi(2));
-                form.rem_var += (e2 - (nx.err_mean * ny.err_mean).powi(2)).max(0.0);
+                form.add_rem(&nx.error.mul(&ny.error), m, (e2 - m * m).max(0.0));
             }
             let ex2 = nx.signal_var + nx.signal_mean.powi(2);
             let ey2 = ny.signal_var + ny.signal_mean.powi(2);
@@ -814,9 +764,9 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
             rounding,
             overflow: mode,
         } => {
+            let (mut form, _) = w.operand(*src);
             let nx = &a.nodes[src.0];
             let sf = path.node(*src).format;
-            let mut form = nx.form.clone();
             let (ulo, uhi) = if sf.frac_bits() > f.frac_bits() {
                 rounded_range(&nx.actual, f.frac_bits(), *rounding)
             } else {
@@ -824,8 +774,8 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
             };
             let u = Interval::new(ulo, uhi);
             if sf.frac_bits() > f.frac_bits() {
-                let q0 = ulp(sf);
-                let q = ulp(f);
+                let q0 = w.format(sf).1;
+                let q = q_f.clone();
                 let eps = rounding_interval(*rounding, &q0, &q, Sign::of(&nx.actual));
                 let (m, v) = rounding_moments(
                     *rounding,
@@ -835,6 +785,7 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                 );
                 let s = add_source(
                     a,
+                    w,
                     i,
                     SourceKind::Rounding,
                     eps,
@@ -847,14 +798,13 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                     ),
                 );
                 rounding_source = Some(s);
-                form = form.combine(&Affine::source(s), false);
+                let fs = Form::source(s, &a.sources, &mut w.owners);
+                form = w.merge(form, fs, false, &a.sources);
             }
             let nx = &a.nodes[src.0];
-            let pre_err = form
-                .interval(&a.sources)
-                .intersect(&u.sub(&nx.ideal))
-                .unwrap_or_else(|| form.interval(&a.sources));
-            let c = clamp_step(f, *mode, &u, &nx.ideal, &pre_err);
+            let fi = form.interval();
+            let pre_err = fi.intersect(&u.sub(&nx.ideal)).unwrap_or(fi);
+            let c = clamp_step(f, &fr, *mode, &u, &nx.ideal, &pre_err);
             if let Some((kind, eps)) = c.source {
                 let what = if kind == SourceKind::Wrap {
                     "wrap-around"
@@ -863,6 +813,7 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                 };
                 let s2 = add_source(
                     a,
+                    w,
                     i,
                     kind,
                     eps,
@@ -870,7 +821,8 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
                     0.0,
                     format!("{what} at {label} ({})", mode.name()),
                 );
-                form = form.combine(&Affine::source(s2), false);
+                let fs = Form::source(s2, &a.sources, &mut w.owners);
+                form = w.merge(form, fs, false, &a.sources);
             }
             overflow = c.info;
             collapse = c.collapse;
@@ -884,9 +836,8 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
             )
         }
     };
-    form.cap(opts.max_terms, &a.sources);
     let actual = actual.intersect(&fr).unwrap_or(fr);
-    let mut error = form.interval(&a.sources);
+    let mut error = form.interval();
     for extra in [Some(range_hull(&ideal, &actual)), collapse]
         .into_iter()
         .flatten()
@@ -895,19 +846,20 @@ fn node(path: &Datapath, a: &mut Analysis, i: usize, opts: &AnalysisOptions) -> 
             error = e;
         }
     }
-    let (err_mean, err_var) = form.moments(&a.sources);
-    NodeAnalysis {
+    let (err_mean, err_var) = form.moments();
+    let na = NodeAnalysis {
+        form: summary_form(&error, err_mean, err_var),
         ideal,
         actual,
         error,
-        form,
         signal_mean: sm,
         signal_var: sv,
         err_mean,
         err_var,
         overflow,
         rounding_source,
-    }
+    };
+    (na, form)
 }
 
 fn square(r: &Interval) -> Interval {

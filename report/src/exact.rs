@@ -74,28 +74,41 @@ impl Interval {
         }
     }
 
-    /// Product: the hull of the four corner products.
+    /// Product: the hull of the four corner products, found from the signs
+    /// of the ends (two multiplications unless both intervals hold 0).
     #[must_use]
     pub fn mul(&self, o: &Interval) -> Interval {
         if self.lo == self.hi && o.lo == o.hi {
             return Interval::point(Rational::from(&self.lo * &o.lo));
         }
-        let c = [
-            Rational::from(&self.lo * &o.lo),
-            Rational::from(&self.lo * &o.hi),
-            Rational::from(&self.hi * &o.lo),
-            Rational::from(&self.hi * &o.hi),
-        ];
-        let mut lo = c[0].clone();
-        let mut hi = c[0].clone();
-        for x in &c[1..] {
-            if *x < lo {
-                lo.clone_from(x);
+        let p = |x: &Rational, y: &Rational| Rational::from(x * y);
+        let (a, b) = (self, o);
+        let (lo, hi) = if !a.lo.is_negative() {
+            if !b.lo.is_negative() {
+                (p(&a.lo, &b.lo), p(&a.hi, &b.hi))
+            } else if !b.hi.is_positive() {
+                (p(&a.hi, &b.lo), p(&a.lo, &b.hi))
+            } else {
+                (p(&a.hi, &b.lo), p(&a.hi, &b.hi))
             }
-            if *x > hi {
-                hi.clone_from(x);
+        } else if !a.hi.is_positive() {
+            if !b.lo.is_negative() {
+                (p(&a.lo, &b.hi), p(&a.hi, &b.lo))
+            } else if !b.hi.is_positive() {
+                (p(&a.hi, &b.hi), p(&a.lo, &b.lo))
+            } else {
+                (p(&a.lo, &b.hi), p(&a.lo, &b.lo))
             }
-        }
+        } else if !b.lo.is_negative() {
+            (p(&a.lo, &b.hi), p(&a.hi, &b.hi))
+        } else if !b.hi.is_positive() {
+            (p(&a.hi, &b.lo), p(&a.lo, &b.lo))
+        } else {
+            (
+                p(&a.lo, &b.hi).min(p(&a.hi, &b.lo)),
+                p(&a.lo, &b.lo).max(p(&a.hi, &b.hi)),
+            )
+        };
         Interval { lo, hi }
     }
 
@@ -226,12 +239,11 @@ pub fn rational_to_qvalue(x: &Rational, format: Format) -> Option<QValue> {
 /// need both neighbours use [`floor_to_grid`] and [`ceil_to_grid`].
 #[must_use]
 pub fn round_to_grid(x: &Rational, frac: u32, mode: Rounding) -> Rational {
-    let step = pow2(-i64::from(frac));
-    let scaled = Rational::from(x / &step);
-    let (r, fl) = scaled.fract_floor(Integer::new()); // r in [0, 1)
-    if r.is_zero() {
+    let scaled = Rational::from(x << frac);
+    if *scaled.denom() == 1 {
         return x.clone();
     }
+    let (r, fl) = scaled.fract_floor(Integer::new()); // r in (0, 1)
     let half = Rational::from((1, 2));
     let neg = x.is_negative();
     let odd = fl.is_odd();
@@ -246,7 +258,7 @@ pub fn round_to_grid(x: &Rational, frac: u32, mode: Rounding) -> Rational {
         Rounding::ToOdd => !odd,
     };
     let q = if up { fl + 1u32 } else { fl };
-    Rational::from(q) * step
+    Rational::from(q) >> frac
 }
 
 /// The largest multiple of `2^-frac` that is `<= x`.

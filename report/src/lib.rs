@@ -38,6 +38,7 @@
 pub mod analysis;
 mod assemble;
 pub mod exact;
+mod form;
 pub mod model;
 pub mod parse;
 pub mod result;

@@ -1,0 +1,256 @@
+//! Invented datapaths shaped like firmware, for the analysis benchmark and
+//! the profiling example (`cargo run --release -p qbound-report --example
+//! analysis_profile -- fir_bank 100000`).
+//!
+//! - `fir_bank`: a bank of 64-tap FIR filters (16-bit coefficients, exact
+//!   40-bit accumulation, one final rounding) over the same 64 quantized
+//!   samples of an ADC: every input's quantization reaches every output;
+//! - `long_fir`: one dot product with `n/3` taps (one accumulation chain,
+//!   every coefficient its own term at the output);
+//! - `random_blocks`: many independent random expressions of about 50
+//!   nodes (fan-in 2, operands from the same block, every operator and
+//!   rounding mode, wide results rescaled to 24 bits);
+//! - `decaying_cascade`: `s = round(s/2 + c·x)` unrolled. The exact ideal
+//!   range of step `k` needs `k` bits, so the exact result itself grows
+//!   quadratically with the depth: this one measures that cost, not the
+//!   per-node overhead.
+
+#![allow(dead_code)]
+
+use qbound::{Format, Overflow, Rounding};
+use qbound_report::{Builder, Datapath, InputKind, NodeId, parse_decimal};
+use rand::{Rng, SeedableRng};
+use rand_chacha::ChaCha8Rng;
+use rug::Rational;
+
+/// A shape by name.
+pub fn by_name(name: &str) -> Option<fn(usize) -> Datapath> {
+    Some(match name {
+        "fir_bank" => fir_bank,
+        "long_fir" => long_fir,
+        "random_blocks" => random_blocks,
+        "decaying_cascade" => decaying_cascade,
+        _ => return None,
+    })
+}
+
+fn q15() -> Format {
+    Format::signed(0, 15).unwrap()
+}
+
+fn sample_range() -> (Rational, Rational) {
+    (Rational::from(-1), Rational::from((32767, 32768)))
+}
+
+/// A coefficient `±0.dddd` (invented), never zero.
+fn coefficient(rng: &mut ChaCha8Rng) -> Rational {
+    let d: u32 = rng.random_range(1..5000);
+    let v = parse_decimal(&format!("0.{d:04}")).unwrap();
+    if rng.random_bool(0.5) { -v } else { v }
+}
+
+/// `y_j = round(Σ_k h_jk·x_k)` for as many 64-tap filters as fit in `n`
+/// nodes, over 64 shared inputs quantized from a real signal.
+pub fn fir_bank(n: usize) -> Datapath {
+    let mut rng = ChaCha8Rng::seed_from_u64(1);
+    let acc = Format::signed(9, 30).unwrap();
+    let mut b = Builder::new();
+    let (lo, hi) = sample_range();
+    let xs: Vec<NodeId> = (0..64)
+        .map(|k| {
+            b.input(
+                &format!("x{k}"),
+                q15(),
+                lo.clone(),
+                hi.clone(),
+                InputKind::Quantized(Rounding::NearestTiesEven),
+            )
+            .unwrap()
+        })
+        .collect();
+    let mut j = 0;
+    while b.len() + 3 * 64 <= n {
+        let mut s: Option<NodeId> = None;
+        for (k, &x) in xs.iter().enumerate() {
+            // Coefficients of magnitude < 0.5/64 keep the sum in range.
+            let c = coefficient(&mut rng) / 64u32;
+            let c = b
+                .constant(&format!("h{j}_{k}"), c, q15(), Rounding::NearestTiesEven)
+                .unwrap();
+            let p = b.mul(c, x).unwrap();
+            s = Some(match s {
+                None => b.rescale(p, acc, Rounding::Floor, Overflow::Wrap).unwrap(),
+                Some(s) => {
+                    let t = b.add(s, p).unwrap();
+                    b.rescale(t, acc, Rounding::Floor, Overflow::Wrap).unwrap()
+                }
+            });
+        }
+        let y = b
+            .rescale(
+                s.unwrap(),
+                q15(),
+                Rounding::NearestTiesEven,
+                Overflow::Saturate,
+            )
+            .unwrap();
+        b.output(&format!("y{j}"), y, None).unwrap();
+        j += 1;
+    }
+    b.build()
+}
+
+/// One dot product of about `n/3` taps.
+pub fn long_fir(n: usize) -> Datapath {
+    let mut rng = ChaCha8Rng::seed_from_u64(2);
+    let acc = Format::signed(20, 30).unwrap();
+    let mut b = Builder::new();
+    let (lo, hi) = sample_range();
+    let mut s: Option<NodeId> = None;
+    let mut k = 0;
+    while b.len() + 5 <= n {
+        let x = b
+            .input(
+                &format!("x{k}"),
+                q15(),
+                lo.clone(),
+                hi.clone(),
+                InputKind::Exact,
+            )
+            .unwrap();
+        let c = b
+            .constant(
+                &format!("h{k}"),
+                coefficient(&mut rng),
+                q15(),
+                Rounding::NearestTiesEven,
+            )
+            .unwrap();
+        let p = b.mul(c, x).unwrap();
+        s = Some(match s {
+            None => b.rescale(p, acc, Rounding::Floor, Overflow::Wrap).unwrap(),
+            Some(s) => {
+                let t = b.add(s, p).unwrap();
+                b.rescale(t, acc, Rounding::Floor, Overflow::Wrap).unwrap()
+            }
+        });
+        k += 1;
+    }
+    let y = b
+        .rescale(
+            s.unwrap(),
+            Format::signed(15, 15).unwrap(),
+            Rounding::NearestTiesEven,
+            Overflow::Saturate,
+        )
+        .unwrap();
+    b.output("y", y, None).unwrap();
+    b.build()
+}
+
+/// Independent random blocks of about 50 nodes each, one output per block.
+pub fn random_blocks(n: usize) -> Datapath {
+    let mut rng = ChaCha8Rng::seed_from_u64(3);
+    let narrow = Format::signed(3, 20).unwrap();
+    let mut b = Builder::new();
+    let mut j = 0;
+    while b.len() + 60 <= n {
+        let mut pool: Vec<NodeId> = Vec::new();
+        for k in 0..4 {
+            let kind = if rng.random_bool(0.5) {
+                InputKind::Exact
+            } else {
+                InputKind::Quantized(Rounding::ALL[rng.random_range(0..Rounding::ALL.len())])
+            };
+            let hi = Rational::from((rng.random_range(1..8u32), 4));
+            let lo = -hi.clone();
+            pool.push(
+                b.input(&format!("b{j}_x{k}"), narrow, lo, hi, kind)
+                    .unwrap(),
+            );
+        }
+        for k in 0..2 {
+            pool.push(
+                b.constant(
+                    &format!("b{j}_c{k}"),
+                    coefficient(&mut rng),
+                    q15(),
+                    Rounding::NearestTiesEven,
+                )
+                .unwrap(),
+            );
+        }
+        while pool.len() < 50 {
+            let x = pool[rng.random_range(0..pool.len())];
+            let y = pool[rng.random_range(0..pool.len())];
+            let node = match rng.random_range(0..6) {
+                0 => b.add(x, y),
+                1 => b.sub(x, y),
+                2 => b.mul(x, y),
+                3 => b.neg(x),
+                4 => b.shift(x, rng.random_range(-3..=3)),
+                _ => b.rescale(
+                    x,
+                    narrow,
+                    Rounding::ALL[rng.random_range(0..Rounding::ALL.len())],
+                    Overflow::ALL[rng.random_range(0..2)],
+                ),
+            };
+            let Ok(mut v) = node else { continue };
+            // Keep every value in a firmware-sized word.
+            if b.format_of(v).width() > 40 {
+                v = b
+                    .rescale(v, narrow, Rounding::NearestTiesEven, Overflow::Saturate)
+                    .unwrap();
+            }
+            pool.push(v);
+        }
+        b.output(&format!("b{j}"), *pool.last().unwrap(), None)
+            .unwrap();
+        j += 1;
+    }
+    b.build()
+}
+
+/// `s = round(s/2 + c·x)` unrolled: a deep recursion whose exact ranges
+/// need one more bit per step.
+pub fn decaying_cascade(n: usize) -> Datapath {
+    let acc = Format::signed(3, 20).unwrap();
+    let mut b = Builder::new();
+    let (lo, hi) = sample_range();
+    let x = b
+        .input("x", q15(), lo.clone(), hi.clone(), InputKind::Exact)
+        .unwrap();
+    let mut s = b
+        .rescale(x, acc, Rounding::Floor, Overflow::Saturate)
+        .unwrap();
+    let mut k = 0;
+    while b.len() + 5 <= n {
+        let c = b
+            .constant(
+                &format!("c{k}"),
+                parse_decimal(&format!("0.{:04}", 1000 + (k * 7919) % 8000)).unwrap(),
+                q15(),
+                Rounding::NearestTiesEven,
+            )
+            .unwrap();
+        let xi = b
+            .input(
+                &format!("x{k}"),
+                q15(),
+                lo.clone(),
+                hi.clone(),
+                InputKind::Exact,
+            )
+            .unwrap();
+        let p = b.mul(c, xi).unwrap();
+        let half = b.shift(s, -1).unwrap();
+        let t = b.add(half, p).unwrap();
+        s = b
+            .rescale(t, acc, Rounding::NearestTiesEven, Overflow::Saturate)
+            .unwrap();
+        k += 1;
+    }
+    b.output("y", s, None).unwrap();
+    b.build()
+}
