@@ -50,7 +50,10 @@ fn main() {
     assert_eq!(exact, Product::FORMAT); // the type system agrees with the algebra
 
     let mut history = [Sample::ZERO; 8];
-    println!("{:>4} {:>8} {:>14} {:>8}", "n", "in", "acc bits", "out");
+    println!(
+        "{:>4} {:>8} {:>12} {:>14} {:>8} {:>10}",
+        "n", "adc", "in (FS)", "acc", "out", "out (FS)"
+    );
     for (n, word) in adc.iter().enumerate() {
         history.rotate_right(1);
         history[0] = Sample::from_bits(*word);
