@@ -50,7 +50,10 @@ fn main() {
     assert_eq!(exact, Product::FORMAT); // the type system agrees with the algebra
 
     let mut history = [Sample::ZERO; 8];
-    println!("{:>4} {:>8} {:>14} {:>8}", "n", "in", "acc bits", "out");
+    println!(
+        "{:>4} {:>8} {:>12} {:>14} {:>8} {:>10}",
+        "n", "adc", "in (FS)", "acc", "out", "out (FS)"
+    );
     for (n, word) in adc.iter().enumerate() {
         history.rotate_right(1);
         history[0] = Sample::from_bits(*word);
@@ -72,20 +75,25 @@ fn main() {
         }
         assert_eq!(check, acc);
 
+        // Exact decimal text, rounded for the table (no floats involved),
+        // and the output word as the firmware sees it.
         println!(
-            "{n:>4} {word:>8} {:>14} {:>8}",
-            acc.to_bits(),
-            out.to_bits()
+            "{n:>4} {word:>8} {:>12.6} {:>14.9} {:>#8x} {:>10.6}",
+            history[0], acc, out, out
         );
     }
 
     // What a firmware engineer asks next: did the output ever clip?
     let full_scale = Acc::dot(&[Sample::MAX; 8], &taps);
     let clipped: Result<Sample, _> = full_scale.try_rescale(Rounding::NearestTiesEven);
-    println!(
-        "a full-scale input gives {:?} in {} → {:?}",
-        full_scale,
-        Acc::FORMAT,
-        clipped.map(|s| s.to_bits())
-    );
+    match clipped {
+        Ok(s) => println!(
+            "a full-scale input gives {full_scale} in {}: no clipping ({s})",
+            Acc::FORMAT
+        ),
+        Err(e) => println!(
+            "a full-scale input gives {full_scale} in {}: it clips ({e})",
+            Acc::FORMAT
+        ),
+    }
 }

@@ -46,6 +46,28 @@
 //! format that runs the same kernels as the typed values; the audit tool
 //! uses it.
 //!
+//! ## Division and functions
+//!
+//! Division, reciprocal, square root, sine and cosine of an angle in turns
+//! (a wrapping phase accumulator feeds them directly) or radians, `atan2`,
+//! `exp2` and `log2` take the output format as a type parameter, a
+//! [`Rounding`] mode and an [`Overflow`] mode, and compute with integers
+//! only. Division, reciprocal and square root are correctly rounded in every
+//! mode; the others are correctly rounded unless the exact value lies within
+//! 2^-112 of a rounding boundary, and always within one ulp. `try_` forms
+//! return a [`FunctionError`] for a zero divisor, a negative root or a
+//! logarithm of a non-positive number.
+//!
+//! ```
+//! use qbound::{Q, UQ, Rounding, Overflow};
+//! let phase = UQ::<0, 16>::from_bits(0x2000);                 // 1/8 turn
+//! let s: Q<1, 14> = phase.sin_turns(Rounding::NearestTiesEven, Overflow::Saturate);
+//! assert_eq!(s.to_bits(), 11585);                            // √2/2 ≈ 0.70709
+//! let x = UQ::<8, 8>::from_bits(2 << 8);                     // 2.0
+//! let r: UQ<1, 15> = x.sqrt(Rounding::NearestTiesEven, Overflow::Saturate);
+//! assert_eq!(r.to_bits(), 46341);                            // √2 ≈ 1.41422
+//! ```
+//!
 //! ## Conversions: exact, rounded or checked
 //!
 //! Every conversion is one of three kinds, and its name says which:

@@ -495,18 +495,7 @@ fn ziv<D: Storage>(
     a.round_point(a.a, dst, rnd)
 }
 
-/// Run `$body` with `$D` naming the 128-bit storage of format `$f`.
-macro_rules! with_storage {
-    ($f:expr, $D:ident => $body:expr) => {
-        if $f.is_signed() {
-            type $D = i128;
-            $body
-        } else {
-            type $D = u128;
-            $body
-        }
-    };
-}
+use crate::value::with_storage;
 
 fn finish<D: Storage>(f: Fitted<D>, dst: Format, overflow: Overflow) -> QValue {
     QValue::from_wide_unchecked(dst, f.resolve(dst, overflow).to_wide())

@@ -718,12 +718,6 @@ fn const_literals() {
 }
 
 #[test]
-fn literal_errors_fail_the_build() {
-    let t = trybuild::TestCases::new();
-    t.compile_fail("tests/ui/literal_*.rs");
-}
-
-#[test]
 fn num_traits_on_the_bare_types() {
     use num_traits::{Bounded, FromPrimitive, NumCast, ToPrimitive};
     type T = Q<7, 8>;
