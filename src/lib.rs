@@ -143,9 +143,11 @@
 //!
 //! - `const-generics` (default): the `Q<I, F>` / `UQ<I, F>` aliases with
 //!   `usize` parameters. Without it, name the types as `Sq<U7, U8>`.
-//! - `serde`: human-readable formats carry the exact decimal text
+//! - `serde`: for the typed values, [`QValue`] and [`Format`]; human-readable formats carry the exact decimal text
 //!   (`"1.5"`), binary formats the stored integer; a value that does not
 //!   fit is an error when read, never wrapped or clamped.
+//! - `defmt`: values, [`QValue`] and [`Format`] log through `defmt` as
+//!   `Q7.8(1.5)`, rendered into a stack buffer (no allocation).
 //!
 //! ## Safety-related use
 //!
@@ -163,6 +165,8 @@ extern crate std;
 
 mod accumulate;
 mod convert;
+#[cfg(feature = "defmt")]
+mod defmt_impls;
 mod format;
 mod functions;
 mod kernel;

@@ -158,3 +158,209 @@ macro_rules! serde_common {
 
 serde_common!(Sq, SignedLayout);
 serde_common!(Uq, UnsignedLayout);
+
+/// A [`Format`](crate::Format) is its text form, `"Q7.8"` or `"UQ8.8"`, in
+/// every serde format.
+///
+/// ```
+/// # #[cfg(feature = "serde")] {
+/// use qbound::Format;
+/// let f = Format::signed(7, 8).unwrap();
+/// assert_eq!(serde_json::to_string(&f).unwrap(), "\"Q7.8\"");
+/// assert_eq!(serde_json::from_str::<Format>("\"uq8.8\"").unwrap(), Format::unsigned(8, 8).unwrap());
+/// assert!(serde_json::from_str::<Format>("\"Q200.0\"").is_err());
+/// # }
+/// ```
+impl Serialize for crate::Format {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.collect_str(self)
+    }
+}
+
+impl<'de> de::Deserialize<'de> for crate::Format {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct FormatVisitor;
+        impl Visitor<'_> for FormatVisitor {
+            type Value = crate::Format;
+            fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+                f.write_str("a format such as \"Q7.8\" or \"UQ8.8\"")
+            }
+            fn visit_str<E: de::Error>(self, s: &str) -> Result<crate::Format, E> {
+                s.parse().map_err(E::custom)
+            }
+        }
+        d.deserialize_str(FormatVisitor)
+    }
+}
+
+/// A [`QValue`](crate::QValue) is a struct of its format and its value:
+/// `{"format": "Q7.8", "value": "1.5"}` in human-readable formats (the
+/// exact decimal text), the format text and the stored integer (`i128` for
+/// signed formats, `u128` for unsigned) in binary ones. When reading, the
+/// format must come before the value (as it is written), and a value that
+/// does not fit the format is an error.
+///
+/// ```
+/// # #[cfg(feature = "serde")] {
+/// use qbound::{Format, QValue};
+/// let v = QValue::from_i128_bits(Format::signed(7, 8).unwrap(), 384).unwrap();
+/// let text = serde_json::to_string(&v).unwrap();
+/// assert_eq!(text, r#"{"format":"Q7.8","value":"1.5"}"#);
+/// let back: QValue = serde_json::from_str(&text).unwrap();
+/// assert_eq!((back, back.format()), (v, v.format()));
+/// assert!(serde_json::from_str::<QValue>(r#"{"format":"Q3.4","value":"99"}"#).is_err());
+/// # }
+/// ```
+impl Serialize for crate::QValue {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeStruct;
+        let human = s.is_human_readable();
+        let mut st = s.serialize_struct("QValue", 2)?;
+        st.serialize_field("format", &self.format())?;
+        if human {
+            st.serialize_field("value", &DecimalText(*self))?;
+        } else if self.format().is_signed() {
+            st.serialize_field("value", &(self.bits().low_bits() as i128))?;
+        } else {
+            st.serialize_field("value", &self.bits().low_bits())?;
+        }
+        st.end()
+    }
+}
+
+/// Serializes a value as its exact decimal text.
+struct DecimalText(crate::QValue);
+
+impl Serialize for DecimalText {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.collect_str(&self.0)
+    }
+}
+
+/// The value part of a `QValue`, read once its format is known.
+struct ValueSeed {
+    format: crate::Format,
+    human: bool,
+}
+
+impl<'de> de::DeserializeSeed<'de> for ValueSeed {
+    type Value = crate::QValue;
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<crate::QValue, D::Error> {
+        if self.human {
+            d.deserialize_any(self)
+        } else if self.format.is_signed() {
+            d.deserialize_i128(self)
+        } else {
+            d.deserialize_u128(self)
+        }
+    }
+}
+
+impl Visitor<'_> for ValueSeed {
+    type Value = crate::QValue;
+    fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if self.human {
+            write!(f, "a {} value as a decimal string", self.format)
+        } else {
+            write!(f, "the stored bits of a {} value", self.format)
+        }
+    }
+    fn visit_str<E: de::Error>(self, s: &str) -> Result<crate::QValue, E> {
+        crate::QValue::try_parse(self.format, s, Rounding::NearestTiesEven).map_err(E::custom)
+    }
+    fn visit_i64<E: de::Error>(self, n: i64) -> Result<crate::QValue, E> {
+        self.visit_i128(i128::from(n))
+    }
+    fn visit_u64<E: de::Error>(self, n: u64) -> Result<crate::QValue, E> {
+        self.visit_u128(u128::from(n))
+    }
+    fn visit_i128<E: de::Error>(self, n: i128) -> Result<crate::QValue, E> {
+        if self.human {
+            return Err(E::custom("expected the value as a decimal string"));
+        }
+        crate::QValue::new(self.format, crate::Wide::from_i128(n)).map_err(E::custom)
+    }
+    fn visit_u128<E: de::Error>(self, n: u128) -> Result<crate::QValue, E> {
+        if self.human {
+            return Err(E::custom("expected the value as a decimal string"));
+        }
+        crate::QValue::new(self.format, crate::Wide::from_u128(n)).map_err(E::custom)
+    }
+}
+
+impl<'de> de::Deserialize<'de> for crate::QValue {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct QValueVisitor {
+            human: bool,
+        }
+        impl<'de> Visitor<'de> for QValueVisitor {
+            type Value = crate::QValue;
+            fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+                f.write_str("a QValue: its format, then its value")
+            }
+            fn visit_seq<A: de::SeqAccess<'de>>(
+                self,
+                mut seq: A,
+            ) -> Result<crate::QValue, A::Error> {
+                let format: crate::Format = seq
+                    .next_element()?
+                    .ok_or_else(|| de::Error::invalid_length(0, &self))?;
+                seq.next_element_seed(ValueSeed {
+                    format,
+                    human: self.human,
+                })?
+                .ok_or_else(|| de::Error::invalid_length(1, &self))
+            }
+            fn visit_map<A: de::MapAccess<'de>>(
+                self,
+                mut map: A,
+            ) -> Result<crate::QValue, A::Error> {
+                let mut format: Option<crate::Format> = None;
+                let mut value: Option<crate::QValue> = None;
+                while let Some(key) = map.next_key::<FieldName>()? {
+                    match key {
+                        FieldName::Format => format = Some(map.next_value()?),
+                        FieldName::Value => {
+                            let format = format.ok_or_else(|| {
+                                de::Error::custom("the format must come before the value")
+                            })?;
+                            value = Some(map.next_value_seed(ValueSeed {
+                                format,
+                                human: self.human,
+                            })?);
+                        }
+                    }
+                }
+                value.ok_or_else(|| de::Error::missing_field("value"))
+            }
+        }
+        let human = d.is_human_readable();
+        d.deserialize_struct("QValue", &["format", "value"], QValueVisitor { human })
+    }
+}
+
+/// The field names of a serialized `QValue`.
+enum FieldName {
+    Format,
+    Value,
+}
+
+impl<'de> de::Deserialize<'de> for FieldName {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct FieldVisitor;
+        impl Visitor<'_> for FieldVisitor {
+            type Value = FieldName;
+            fn expecting(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+                f.write_str("`format` or `value`")
+            }
+            fn visit_str<E: de::Error>(self, s: &str) -> Result<FieldName, E> {
+                match s {
+                    "format" => Ok(FieldName::Format),
+                    "value" => Ok(FieldName::Value),
+                    other => Err(E::unknown_field(other, &["format", "value"])),
+                }
+            }
+        }
+        d.deserialize_identifier(FieldVisitor)
+    }
+}

@@ -842,3 +842,35 @@ fn serde_rejects_values_that_do_not_fit() {
         -64
     );
 }
+
+/// `Format` and `QValue` through serde_json (exact text) and postcard
+/// (stored bits), at the edges of signed and unsigned 128-bit formats.
+#[test]
+fn serde_runtime_values_round_trip() {
+    use qbound::{Format, QValue};
+    let formats = [
+        Format::signed(7, 8).unwrap(),
+        Format::signed(127, 0).unwrap(),
+        Format::unsigned(0, 128).unwrap(),
+        Format::unsigned(128, 0).unwrap(),
+        Format::signed(0, 0).unwrap(),
+        Format::unsigned(5, 7).unwrap(),
+    ];
+    for f in formats {
+        for v in [QValue::min(f), QValue::max(f), QValue::zero(f)] {
+            let text = serde_json::to_string(&v).unwrap();
+            let back: QValue = serde_json::from_str(&text).unwrap();
+            assert_eq!((back, back.format()), (v, f), "{text}");
+            let bytes = postcard::to_allocvec(&v).unwrap();
+            let back: QValue = postcard::from_bytes(&bytes).unwrap();
+            assert_eq!((back, back.format()), (v, f));
+            let ft: Format = serde_json::from_str(&serde_json::to_string(&f).unwrap()).unwrap();
+            assert_eq!(ft, f);
+        }
+    }
+    // A value that does not fit its format is an error, never clamped.
+    assert!(serde_json::from_str::<QValue>(r#"{"format":"UQ4.0","value":"-1"}"#).is_err());
+    assert!(serde_json::from_str::<QValue>(r#"{"value":"1","format":"Q4.0"}"#).is_err());
+    let bytes = postcard::to_allocvec(&(Format::signed(3, 0).unwrap(), 8i128)).unwrap();
+    assert!(postcard::from_bytes::<QValue>(&bytes).is_err());
+}
