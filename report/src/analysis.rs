@@ -30,6 +30,11 @@
 //! saturation source `σ = clamp(u) - u`; a node that can wrap adds a wrap
 //! source.
 //!
+//! The forms are built in the private `form` module's representation (lazy constant
+//! factor, running exact sums, moved rather than copied, sources that no
+//! other form can bring back folded losslessly), so that every node costs
+//! the same however many sources reach it.
+//!
 //! The reported bound of a node is the intersection of three sound
 //! intervals: the affine form evaluated, `actual range - ideal range`, and
 //! (after saturation) `[min(E.lo, max - v.hi), max(E.hi, min - v.lo)]`.
@@ -55,10 +60,13 @@ use crate::result::SourceKind;
 /// Knobs of the analysis.
 #[derive(Clone, Debug)]
 pub struct AnalysisOptions {
-    /// The most sources an affine form keeps as separate terms; beyond
-    /// that the terms with the smallest contribution are folded into the
-    /// remainder interval (still sound, possibly looser). Keeps the
-    /// analysis linear in the number of nodes.
+    /// The most terms a form may hold when it has to be copied (a node
+    /// with several consumers) or multiplied term by term by a signal's
+    /// range; beyond that its smallest terms are folded into the remainder
+    /// interval (still sound, possibly looser). Forms that are only moved,
+    /// added and scaled by constants are never capped: a long
+    /// accumulation keeps every source. This keeps the cost of every node
+    /// bounded, so the analysis is linear in the number of nodes.
     pub max_terms: usize,
 }
 
@@ -286,7 +294,9 @@ pub struct NodeAnalysis {
     pub actual: Interval,
     /// Sound bound: the error lies in this interval.
     pub error: Interval,
-    /// The error's affine form.
+    /// The error's affine form. Complete at outputs and at nodes nobody
+    /// reads; at other nodes the terms moved on to the consumers and this
+    /// holds the bound as a remainder only (`terms` empty, `rem = error`).
     pub form: Affine,
     /// Predicted mean of the ideal value.
     pub signal_mean: f64,
