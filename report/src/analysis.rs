@@ -665,7 +665,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                 rounding_source = Some(s);
                 let mut form = Form::source(s, &a.sources, &mut w.owners);
                 let pre_err = form.interval();
-                let c = clamp_step(f, &fr, Overflow::Saturate, &u, &ideal, &pre_err);
+                let c = clamp_step(f, fr, Overflow::Saturate, &u, &ideal, &pre_err);
                 if let Some((kind, eps)) = c.source {
                     let s2 = add_source(
                         a,
@@ -840,7 +840,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
             let nx = &a.nodes[src.0];
             let fi = form.interval();
             let pre_err = fi.intersect(&u.sub(&nx.ideal)).unwrap_or(fi);
-            let c = clamp_step(f, &fr, *mode, &u, &nx.ideal, &pre_err);
+            let c = clamp_step(f, fr, *mode, &u, &nx.ideal, &pre_err);
             if let Some((kind, eps)) = c.source {
                 let what = if kind == SourceKind::Wrap {
                     "wrap-around"
@@ -873,7 +873,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
         }
     };
     let mut actual = actual;
-    if !narrow(&mut actual, &fr) {
+    if !narrow(&mut actual, fr) {
         actual = fr.clone();
     }
     let mut error = form.interval();
