@@ -31,9 +31,9 @@
 //! source.
 //!
 //! The forms are built in the private `form` module's representation (lazy constant
-//! factor, running exact sums, moved rather than copied, sources that no
-//! other form can bring back folded losslessly), so that every node costs
-//! the same however many sources reach it.
+//! factor, running exact sums, moved rather than copied, negligible terms
+//! of sources that no other form holds folded into the remainder), so that
+//! every node costs the same however many sources reach it.
 //!
 //! The reported bound of a node is the intersection of three sound
 //! intervals: the affine form evaluated, `actual range - ideal range`, and

@@ -12,8 +12,10 @@
 //!   copied; a merge inserts the smaller form into the larger one.
 //! - `owners[s]` counts the working forms that hold a term of source `s`.
 //!   When it is 1, the term can be folded into the remainder without
-//!   loosening any bound: no other form can ever bring `s` back, and
-//!   independent intervals add exactly. Such terms are folded when they are
+//!   loosening this form's bound: no other form holds `s`, and independent
+//!   intervals add exactly. (If this form is later copied to consumers
+//!   whose paths meet again, the folded part no longer cancels: sound,
+//!   possibly looser, as the remainder always is.) Such terms are folded when they are
 //!   negligible (below `2^-TINY_BITS` of the form's total, so that the
 //!   per-source attribution only loses what it would show as 0 %), and all
 //!   of them when a form has to be scaled term by term (a product with a
