@@ -63,11 +63,11 @@ use crate::result::SourceKind;
 pub struct AnalysisOptions {
     /// The most terms a form may hold when it has to be copied (a node
     /// with several consumers) or multiplied term by term by a signal's
-    /// range; beyond that its smallest terms are folded into the remainder
-    /// interval (still sound, possibly looser). Forms that are only moved,
-    /// added and scaled by constants are never capped: a long
-    /// accumulation keeps every source. This keeps the cost of every node
-    /// bounded, so the analysis is linear in the number of nodes.
+    /// range; beyond that its smallest terms are folded into one internal
+    /// source, reported as remainder (still sound, possibly looser). Forms
+    /// that are only moved, added and scaled by constants are never capped:
+    /// a long accumulation keeps every source. This keeps the cost of every
+    /// node bounded, so the analysis is linear in the number of nodes.
     pub max_terms: usize,
 }
 
