@@ -19,6 +19,12 @@ fn main() {
     let t = std::time::Instant::now();
     let a = qbound_report::analyze(&path);
     let dt = t.elapsed();
+    if args.next().as_deref() == Some("dump") {
+        // Every node's bound, for comparing two versions of the analysis.
+        for (i, n) in a.nodes.iter().enumerate() {
+            println!("{i} [{}, {}]", n.error.lo, n.error.hi);
+        }
+    }
     let worst = a
         .nodes
         .iter()

@@ -30,6 +30,11 @@
 //! saturation source `σ = clamp(u) - u`; a node that can wrap adds a wrap
 //! source.
 //!
+//! The forms are built in the private `form` module's representation (lazy constant
+//! factor, running exact sums, moved rather than copied, negligible terms
+//! of sources that no other form holds folded into the remainder), so that
+//! every node costs the same however many sources reach it.
+//!
 //! The reported bound of a node is the intersection of three sound
 //! intervals: the affine form evaluated, `actual range - ideal range`, and
 //! (after saturation) `[min(E.lo, max - v.hi), max(E.hi, min - v.lo)]`.
@@ -43,6 +48,7 @@
 //! are outside the model (their moments are taken as 0).
 
 use std::collections::HashMap;
+use std::rc::Rc;
 
 use qbound::{Format, Overflow, Rounding};
 use rug::Rational;
@@ -55,10 +61,13 @@ use crate::result::SourceKind;
 /// Knobs of the analysis.
 #[derive(Clone, Debug)]
 pub struct AnalysisOptions {
-    /// The most sources an affine form keeps as separate terms; beyond
-    /// that the terms with the smallest contribution are folded into the
-    /// remainder interval (still sound, possibly looser). Keeps the
-    /// analysis linear in the number of nodes.
+    /// The most terms a form may hold when it has to be copied (a node
+    /// with several consumers) or multiplied term by term by a signal's
+    /// range; beyond that its smallest terms are folded into one internal
+    /// source, reported as remainder (still sound, possibly looser). Forms
+    /// that are only moved, added and scaled by constants are never capped:
+    /// a long accumulation keeps every source. This keeps the cost of every
+    /// node bounded, so the analysis is linear in the number of nodes.
     pub max_terms: usize,
 }
 
@@ -286,7 +295,9 @@ pub struct NodeAnalysis {
     pub actual: Interval,
     /// Sound bound: the error lies in this interval.
     pub error: Interval,
-    /// The error's affine form.
+    /// The error's affine form. Complete at outputs and at nodes nobody
+    /// reads; at other nodes the terms moved on to the consumers and this
+    /// holds the bound as a remainder only (`terms` empty, `rem = error`).
     pub form: Affine,
     /// Predicted mean of the ideal value.
     pub signal_mean: f64,
@@ -370,7 +381,7 @@ pub fn analyze_with(path: &Datapath, opts: &AnalysisOptions) -> Analysis {
 struct Work {
     forms: Vec<Option<Form>>,
     /// Range and step of each format met so far.
-    formats: HashMap<Format, (Interval, Rational)>,
+    formats: HashMap<Format, Rc<(Interval, Rational)>>,
     remaining: Vec<u32>,
     owners: Owners,
     max_terms: usize,
@@ -378,11 +389,12 @@ struct Work {
 
 impl Work {
     /// `format_range(f)` and `ulp(f)`, computed once per format.
-    fn format(&mut self, f: Format) -> (Interval, Rational) {
-        self.formats
-            .entry(f)
-            .or_insert_with(|| (format_range(f), ulp(f)))
-            .clone()
+    fn format(&mut self, f: Format) -> Rc<(Interval, Rational)> {
+        Rc::clone(
+            self.formats
+                .entry(f)
+                .or_insert_with(|| Rc::new((format_range(f), ulp(f)))),
+        )
     }
 
     /// The form of operand `x` for one consumer: moved out at its last use,
@@ -431,6 +443,23 @@ fn fraction_negative(r: &Interval) -> f64 {
         let hi = r.hi.to_f64();
         (-lo / (hi - lo)).clamp(0.0, 1.0)
     }
+}
+
+/// Intersect `x` with `o` in place; if the intersection is empty, leave
+/// `x` unchanged and return false.
+fn narrow(x: &mut Interval, o: &Interval) -> bool {
+    let lo = if o.lo > x.lo { &o.lo } else { &x.lo };
+    let hi = if o.hi < x.hi { &o.hi } else { &x.hi };
+    if lo > hi {
+        return false;
+    }
+    if o.lo > x.lo {
+        x.lo.clone_from(&o.lo);
+    }
+    if o.hi < x.hi {
+        x.hi.clone_from(&o.hi);
+    }
+    true
 }
 
 fn range_hull(ideal: &Interval, actual: &Interval) -> Interval {
@@ -586,8 +615,10 @@ fn summary_form(error: &Interval, mean: f64, var: f64) -> Affine {
 fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnalysis, Form) {
     let nd = &path.nodes()[i];
     let f = nd.format;
-    let label = path.label(NodeId(i));
-    let (fr, q_f) = w.format(f);
+    // Only nodes that add a source need their label.
+    let label = || path.label(NodeId(i));
+    let fq = w.format(f);
+    let (fr, q_f) = (&fq.0, &fq.1);
     let mut overflow = OverflowInfo::default();
     let mut rounding_source = None;
     let mut collapse: Option<Interval> = None;
@@ -600,7 +631,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                 );
                 // Discrete uniform over the N grid points: variance (N² - 1)q²/12.
                 let q = q_f.to_f64();
-                let n = (Rational::from(&r.hi - &r.lo) / &q_f).to_f64() + 1.0;
+                let n = (Rational::from(&r.hi - &r.lo) / q_f).to_f64() + 1.0;
                 let mean = (r.lo.to_f64() + r.hi.to_f64()) / 2.0;
                 (
                     r.clone(),
@@ -625,12 +656,16 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                     eps,
                     m,
                     v,
-                    format!("quantization of input {label} ({} into {f})", mode.name()),
+                    format!(
+                        "quantization of input {} ({} into {f})",
+                        label(),
+                        mode.name()
+                    ),
                 );
                 rounding_source = Some(s);
                 let mut form = Form::source(s, &a.sources, &mut w.owners);
                 let pre_err = form.interval();
-                let c = clamp_step(f, &fr, Overflow::Saturate, &u, &ideal, &pre_err);
+                let c = clamp_step(f, fr, Overflow::Saturate, &u, &ideal, &pre_err);
                 if let Some((kind, eps)) = c.source {
                     let s2 = add_source(
                         a,
@@ -640,7 +675,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                         eps,
                         0.0,
                         0.0,
-                        format!("saturation of input {label}"),
+                        format!("saturation of input {}", label()),
                     );
                     let f2 = Form::source(s2, &a.sources, &mut w.owners);
                     form = w.merge(form, f2, false, &a.sources);
@@ -667,7 +702,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                     Interval::point(d.clone()),
                     df,
                     0.0,
-                    format!("constant {label} = {} in {f}", decimal_text(value)),
+                    format!("constant {} = {} in {f}", label(), decimal_text(value)),
                 );
                 Form::source(s, &a.sources, &mut w.owners)
             };
@@ -774,7 +809,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
             };
             let u = Interval::new(ulo, uhi);
             if sf.frac_bits() > f.frac_bits() {
-                let q0 = w.format(sf).1;
+                let q0 = w.format(sf).1.clone();
                 let q = q_f.clone();
                 let eps = rounding_interval(*rounding, &q0, &q, Sign::of(&nx.actual));
                 let (m, v) = rounding_moments(
@@ -792,7 +827,8 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                     m,
                     v,
                     format!(
-                        "rounding at {label} ({}, {} bits dropped)",
+                        "rounding at {} ({}, {} bits dropped)",
+                        label(),
                         rounding.name(),
                         sf.frac_bits() - f.frac_bits()
                     ),
@@ -804,7 +840,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
             let nx = &a.nodes[src.0];
             let fi = form.interval();
             let pre_err = fi.intersect(&u.sub(&nx.ideal)).unwrap_or(fi);
-            let c = clamp_step(f, &fr, *mode, &u, &nx.ideal, &pre_err);
+            let c = clamp_step(f, fr, *mode, &u, &nx.ideal, &pre_err);
             if let Some((kind, eps)) = c.source {
                 let what = if kind == SourceKind::Wrap {
                     "wrap-around"
@@ -819,7 +855,7 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
                     eps,
                     0.0,
                     0.0,
-                    format!("{what} at {label} ({})", mode.name()),
+                    format!("{what} at {} ({})", label(), mode.name()),
                 );
                 let fs = Form::source(s2, &a.sources, &mut w.owners);
                 form = w.merge(form, fs, false, &a.sources);
@@ -836,15 +872,14 @@ fn node(path: &Datapath, a: &mut Analysis, w: &mut Work, i: usize) -> (NodeAnaly
             )
         }
     };
-    let actual = actual.intersect(&fr).unwrap_or(fr);
+    let mut actual = actual;
+    if !narrow(&mut actual, fr) {
+        actual = fr.clone();
+    }
     let mut error = form.interval();
-    for extra in [Some(range_hull(&ideal, &actual)), collapse]
-        .into_iter()
-        .flatten()
-    {
-        if let Some(e) = error.intersect(&extra) {
-            error = e;
-        }
+    narrow(&mut error, &range_hull(&ideal, &actual));
+    if let Some(c) = collapse {
+        narrow(&mut error, &c);
     }
     let (err_mean, err_var) = form.moments();
     let na = NodeAnalysis {

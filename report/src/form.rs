@@ -11,17 +11,22 @@
 //! - A form whose node has no later use is moved into its consumer, not
 //!   copied; a merge inserts the smaller form into the larger one.
 //! - `owners[s]` counts the working forms that hold a term of source `s`.
-//!   When it is 1, the term can be folded into the remainder without
-//!   loosening any bound: no other form can ever bring `s` back, and
-//!   independent intervals add exactly. Such terms are folded when they are
-//!   negligible (below `2^-TINY_BITS` of the form's total, so that the
-//!   per-source attribution only loses what it would show as 0 %), and all
-//!   of them when a form has to be scaled term by term (a product with a
-//!   signal) while holding more than `MATERIALIZE_KEEP` terms.
+//!   Terms that no other form holds can be replaced by one internal source
+//!   `η` ranging over the exact sum of their intervals (coefficient 1):
+//!   the sum of independent terms ranges over exactly that interval, and
+//!   `η` is tracked like any source afterwards (copies of the form that
+//!   meet again still cancel it), so no bound changes. This is done for
+//!   negligible terms (below `2^-TINY_BITS` of the form's total, so that
+//!   the per-source attribution only loses what it would show as 0 %) when
+//!   the form has doubled since its last scan, and for all of them when a
+//!   form with more than `MATERIALIZE_KEEP` terms is multiplied by a
+//!   signal's range. At the outputs internal sources are reported as part
+//!   of the remainder.
 //! - Copies (a node with several consumers) and multiplications by a signal
 //!   of a form with more than `max_terms` terms first fold its smallest
-//!   terms (sound, possibly looser), so no single node costs more than
-//!   `O(max_terms)` term operations.
+//!   terms into one internal source (sound; looser only if a folded source
+//!   also reaches the node along another path), so no single node costs
+//!   more than `O(max_terms)` term operations.
 
 use std::collections::BTreeMap;
 
@@ -54,9 +59,9 @@ struct WTerm {
 }
 
 impl WTerm {
-    fn new(coef: Interval, gm: f64, gv: f64, s: &Source) -> WTerm {
-        let iv = coef.mul(&s.eps);
-        let (m, v) = moments(gm, gv, s);
+    fn new(coef: Interval, gm: f64, gv: f64, (eps, mean, var): (&Interval, f64, f64)) -> WTerm {
+        let iv = coef.mul(eps);
+        let (m, v) = moments_of(gm, gv, mean, var);
         WTerm {
             coef,
             iv,
@@ -70,24 +75,65 @@ impl WTerm {
 
 /// Mean and variance of `g·ε` for independent `g` and `ε`.
 pub(crate) fn moments(gm: f64, gv: f64, s: &Source) -> (f64, f64) {
-    let m = gm * s.mean;
-    let v = (gv + gm * gm) * (s.var + s.mean * s.mean) - m * m;
+    moments_of(gm, gv, s.mean, s.var)
+}
+
+fn moments_of(gm: f64, gv: f64, mean: f64, var: f64) -> (f64, f64) {
+    let m = gm * mean;
+    let v = (gv + gm * gm) * (var + mean * mean) - m * m;
     (m, v.max(0.0))
 }
 
-/// Bookkeeping shared by all working forms of one analysis.
+/// The ids of internal sources (made by folding) have this bit set; the
+/// others are indices into the analysis' sources.
+const SYNTH: usize = 1 << (usize::BITS - 1);
+
+/// Bookkeeping shared by all working forms of one analysis: how many live
+/// forms hold each source, and the internal sources made by folding.
 pub(crate) struct Owners {
     count: Vec<u32>,
+    /// Range, mean, variance and owner count of each internal source.
+    synth: Vec<(Interval, f64, f64, u32)>,
 }
 
 impl Owners {
     pub(crate) fn new() -> Owners {
-        Owners { count: Vec::new() }
+        Owners {
+            count: Vec::new(),
+            synth: Vec::new(),
+        }
     }
 
     /// Register a new source (no form holds it yet).
     pub(crate) fn push(&mut self) {
         self.count.push(0);
+    }
+
+    fn count(&self, id: usize) -> u32 {
+        if id & SYNTH == 0 {
+            self.count[id]
+        } else {
+            self.synth[id & !SYNTH].3
+        }
+    }
+
+    fn count_mut(&mut self, id: usize) -> &mut u32 {
+        if id & SYNTH == 0 {
+            &mut self.count[id]
+        } else {
+            &mut self.synth[id & !SYNTH].3
+        }
+    }
+
+    /// Range, mean and variance of source `id`.
+    fn source<'a>(&'a self, id: usize, sources: &'a [Source]) -> (&'a Interval, f64, f64) {
+        if id & SYNTH == 0 {
+            let s = &sources[id];
+            (&s.eps, s.mean, s.var)
+        } else {
+            let (eps, m, v, _) = &self.synth[id & !SYNTH];
+            (eps, *m, *v)
+        }
     }
 }
 
@@ -129,7 +175,14 @@ impl Form {
     /// The form `1·ε_src`.
     pub(crate) fn source(src: usize, sources: &[Source], owners: &mut Owners) -> Form {
         let mut f = Form::zero();
-        f.insert(src, Interval::point(Rational::from(1)), 1.0, 0.0, sources);
+        f.insert(
+            src,
+            Interval::point(Rational::from(1)),
+            1.0,
+            0.0,
+            sources,
+            owners,
+        );
         owners.count[src] += 1;
         f
     }
@@ -142,8 +195,16 @@ impl Form {
         self.terms.is_empty() && self.rem.is_zero()
     }
 
-    fn insert(&mut self, src: usize, coef: Interval, gm: f64, gv: f64, sources: &[Source]) {
-        let t = WTerm::new(coef, gm, gv, &sources[src]);
+    fn insert(
+        &mut self,
+        src: usize,
+        coef: Interval,
+        gm: f64,
+        gv: f64,
+        sources: &[Source],
+        owners: &Owners,
+    ) {
+        let t = WTerm::new(coef, gm, gv, owners.source(src, sources));
         self.add_term_sums(&t, true);
         self.terms.insert(src, t);
     }
@@ -280,7 +341,7 @@ impl Form {
         self.rem_var = rem_var;
         for (s, t) in old {
             let (gm, gv) = mom(t.gm, t.gv);
-            self.insert(s, t.coef.mul(v), gm, gv, sources);
+            self.insert(s, t.coef.mul(v), gm, gv, sources, owners);
         }
     }
 
@@ -313,9 +374,16 @@ impl Form {
             let (gm, gv) = (t.gm * ff, t.gv * ff * ff);
             if let Some(old) = self.terms.remove(&s) {
                 self.add_term_sums(&old, false);
-                self.insert(s, old.coef.add(&coef), old.gm + gm, old.gv + gv, sources);
+                self.insert(
+                    s,
+                    old.coef.add(&coef),
+                    old.gm + gm,
+                    old.gv + gv,
+                    sources,
+                    owners,
+                );
                 if consumed {
-                    owners.count[s] -= 1;
+                    *owners.count_mut(s) -= 1;
                 }
             } else {
                 // A point factor scales `coef × ε` exactly: no new product.
@@ -334,7 +402,7 @@ impl Form {
                 self.add_term_sums(&nt, true);
                 self.terms.insert(s, nt);
                 if !consumed {
-                    owners.count[s] += 1;
+                    *owners.count_mut(s) += 1;
                 }
             }
         }
@@ -368,28 +436,51 @@ impl Form {
         let gone: Vec<usize> = self
             .terms
             .iter()
-            .filter(|(s, t)| owners.count[**s] == 1 && pick(t))
+            .filter(|(s, t)| owners.count(**s) == 1 && pick(t))
             .map(|(s, _)| *s)
             .collect();
-        for s in gone {
-            let t = self.terms.remove(&s).expect("term present");
-            self.fold_term(s, &t, owners);
+        self.fold(gone, owners);
+    }
+
+    /// Replace the terms `ids` by one internal source `η` with coefficient
+    /// 1, ranging over the exact sum of their intervals: the running sums
+    /// and moments do not change, and `η` is tracked like any source, so a
+    /// copy of this form that meets another one later still cancels it.
+    /// Exact for terms no other form holds (the sum of independent terms
+    /// ranges over exactly the sum of their intervals); for the others it
+    /// forgets their correlation with those forms (sound, possibly looser).
+    fn fold(&mut self, ids: Vec<usize>, owners: &mut Owners) {
+        if ids.len() < 2 {
+            return;
         }
+        let (mut lo, mut hi, mut m, mut v) = (Rational::new(), Rational::new(), 0.0, 0.0);
+        for id in ids {
+            let t = self.terms.remove(&id).expect("term present");
+            lo += &t.iv.lo;
+            hi += &t.iv.hi;
+            m += t.m;
+            v += t.v;
+            *owners.count_mut(id) -= 1;
+        }
+        let iv = Interval::new(lo, hi);
+        let id = SYNTH | owners.synth.len();
+        owners.synth.push((iv.clone(), m, v, 1));
+        self.terms.insert(
+            id,
+            WTerm {
+                coef: Interval::point(Rational::from(1)),
+                iv,
+                gm: 1.0,
+                gv: 0.0,
+                m,
+                v,
+            },
+        );
     }
 
-    /// Move one (already removed) term into the remainder: the running sums
-    /// do not change.
-    fn fold_term(&mut self, s: usize, t: &WTerm, owners: &mut Owners) {
-        self.rem = self.rem.add(&t.iv);
-        self.mean -= t.m;
-        self.var -= t.v;
-        self.rem_mean += t.m;
-        self.rem_var += t.v;
-        owners.count[s] -= 1;
-    }
-
-    /// Keep at most `max` terms: fold the smallest down to `max / 2` (sound;
-    /// looser if a folded source reaches a node again along another path).
+    /// Keep at most `max` terms: fold the smallest into one internal source
+    /// (sound; looser if a folded source reaches a node again along another
+    /// path).
     pub(crate) fn cap(&mut self, max: usize, owners: &mut Owners) {
         if self.terms.len() <= max {
             return;
@@ -400,17 +491,15 @@ impl Form {
             .map(|(s, t)| (t.iv.max_abs(), *s))
             .collect();
         keyed.sort_by(|a, b| b.0.cmp(&a.0));
-        for (_, s) in keyed.drain(max.div_ceil(2)..) {
-            let t = self.terms.remove(&s).expect("term present");
-            self.fold_term(s, &t, owners);
-        }
+        let gone = keyed.drain(max.div_ceil(2)..).map(|(_, s)| s).collect();
+        self.fold(gone, owners);
     }
 
     /// A copy for a second consumer: every source it holds gains an owner.
     pub(crate) fn copy(&mut self, max: usize, owners: &mut Owners) -> Form {
         self.cap(max, owners);
         for s in self.terms.keys() {
-            owners.count[*s] += 1;
+            *owners.count_mut(*s) += 1;
         }
         Form {
             scale: self.scale.clone(),
@@ -429,28 +518,37 @@ impl Form {
     /// The form is dropped: its sources lose an owner.
     pub(crate) fn release(&self, owners: &mut Owners) {
         for s in self.terms.keys() {
-            owners.count[*s] -= 1;
+            *owners.count_mut(*s) -= 1;
         }
     }
 
-    /// The public form (coefficients with the scale applied).
+    /// The public form (coefficients with the scale applied; internal
+    /// sources go to the remainder).
     pub(crate) fn to_affine(&self) -> Affine {
         let k = &self.scale;
         let kf = k.to_f64();
-        Affine {
-            terms: self
-                .terms
-                .iter()
-                .map(|(s, t)| Term {
+        let mut rem = self.rem.clone();
+        let (mut rem_mean, mut rem_var) = (self.rem_mean, self.rem_var);
+        let mut terms = Vec::new();
+        for (s, t) in &self.terms {
+            if s & SYNTH == 0 {
+                terms.push(Term {
                     src: *s,
                     coef: t.coef.scale(k),
                     gm: t.gm * kf,
                     gv: t.gv * kf * kf,
-                })
-                .collect(),
-            rem: self.rem.scale(k),
-            rem_mean: self.rem_mean * kf,
-            rem_var: self.rem_var * kf * kf,
+                });
+            } else {
+                rem = rem.add(&t.iv);
+                rem_mean += t.m;
+                rem_var += t.v;
+            }
+        }
+        Affine {
+            terms,
+            rem: rem.scale(k),
+            rem_mean: rem_mean * kf,
+            rem_var: rem_var * kf * kf,
         }
     }
 }

@@ -42,6 +42,28 @@ fn sample_range() -> (Rational, Rational) {
     (Rational::from(-1), Rational::from((32767, 32768)))
 }
 
+/// An exact 16-bit sample input in `[-1, 1 - 2^-15]`.
+fn sample(b: &mut Builder, name: &str) -> NodeId {
+    let (lo, hi) = sample_range();
+    b.input(name, q15(), lo, hi, InputKind::Exact).unwrap()
+}
+
+/// A Q0.15 constant rounded to nearest.
+fn q15_const(b: &mut Builder, name: &str, value: Rational) -> NodeId {
+    b.constant(name, value, q15(), Rounding::NearestTiesEven)
+        .unwrap()
+}
+
+/// `round(s + p)` into the accumulator format (no bits dropped: a range
+/// check), or `p` alone for the first tap.
+fn accumulate(b: &mut Builder, s: Option<NodeId>, p: NodeId, acc: Format) -> NodeId {
+    let t = match s {
+        None => p,
+        Some(s) => b.add(s, p).unwrap(),
+    };
+    b.rescale(t, acc, Rounding::Floor, Overflow::Wrap).unwrap()
+}
+
 /// A coefficient `±0.dddd` (invented), never zero.
 fn coefficient(rng: &mut ChaCha8Rng) -> Rational {
     let d: u32 = rng.random_range(1..5000);
@@ -74,17 +96,9 @@ pub fn fir_bank(n: usize) -> Datapath {
         for (k, &x) in xs.iter().enumerate() {
             // Coefficients of magnitude < 0.5/64 keep the sum in range.
             let c = coefficient(&mut rng) / 64u32;
-            let c = b
-                .constant(&format!("h{j}_{k}"), c, q15(), Rounding::NearestTiesEven)
-                .unwrap();
+            let c = q15_const(&mut b, &format!("h{j}_{k}"), c);
             let p = b.mul(c, x).unwrap();
-            s = Some(match s {
-                None => b.rescale(p, acc, Rounding::Floor, Overflow::Wrap).unwrap(),
-                Some(s) => {
-                    let t = b.add(s, p).unwrap();
-                    b.rescale(t, acc, Rounding::Floor, Overflow::Wrap).unwrap()
-                }
-            });
+            s = Some(accumulate(&mut b, s, p, acc));
         }
         let y = b
             .rescale(
@@ -105,35 +119,13 @@ pub fn long_fir(n: usize) -> Datapath {
     let mut rng = ChaCha8Rng::seed_from_u64(2);
     let acc = Format::signed(20, 30).unwrap();
     let mut b = Builder::new();
-    let (lo, hi) = sample_range();
     let mut s: Option<NodeId> = None;
     let mut k = 0;
     while b.len() + 5 <= n {
-        let x = b
-            .input(
-                &format!("x{k}"),
-                q15(),
-                lo.clone(),
-                hi.clone(),
-                InputKind::Exact,
-            )
-            .unwrap();
-        let c = b
-            .constant(
-                &format!("h{k}"),
-                coefficient(&mut rng),
-                q15(),
-                Rounding::NearestTiesEven,
-            )
-            .unwrap();
+        let x = sample(&mut b, &format!("x{k}"));
+        let c = q15_const(&mut b, &format!("h{k}"), coefficient(&mut rng));
         let p = b.mul(c, x).unwrap();
-        s = Some(match s {
-            None => b.rescale(p, acc, Rounding::Floor, Overflow::Wrap).unwrap(),
-            Some(s) => {
-                let t = b.add(s, p).unwrap();
-                b.rescale(t, acc, Rounding::Floor, Overflow::Wrap).unwrap()
-            }
-        });
+        s = Some(accumulate(&mut b, s, p, acc));
         k += 1;
     }
     let y = b
@@ -217,32 +209,18 @@ pub fn random_blocks(n: usize) -> Datapath {
 pub fn decaying_cascade(n: usize) -> Datapath {
     let acc = Format::signed(3, 20).unwrap();
     let mut b = Builder::new();
-    let (lo, hi) = sample_range();
-    let x = b
-        .input("x", q15(), lo.clone(), hi.clone(), InputKind::Exact)
-        .unwrap();
+    let x = sample(&mut b, "x");
     let mut s = b
         .rescale(x, acc, Rounding::Floor, Overflow::Saturate)
         .unwrap();
     let mut k = 0;
     while b.len() + 5 <= n {
-        let c = b
-            .constant(
-                &format!("c{k}"),
-                parse_decimal(&format!("0.{:04}", 1000 + (k * 7919) % 8000)).unwrap(),
-                q15(),
-                Rounding::NearestTiesEven,
-            )
-            .unwrap();
-        let xi = b
-            .input(
-                &format!("x{k}"),
-                q15(),
-                lo.clone(),
-                hi.clone(),
-                InputKind::Exact,
-            )
-            .unwrap();
+        let c = q15_const(
+            &mut b,
+            &format!("c{k}"),
+            parse_decimal(&format!("0.{:04}", 1000 + (k * 7919) % 8000)).unwrap(),
+        );
+        let xi = sample(&mut b, &format!("x{k}"));
         let p = b.mul(c, xi).unwrap();
         let half = b.shift(s, -1).unwrap();
         let t = b.add(half, p).unwrap();

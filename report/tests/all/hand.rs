@@ -173,3 +173,29 @@ fn affine_form_cancels_correlated_errors() {
     );
     assert_eq!(bound(&r, "d"), (q(0, 1), q(0, 1)));
 }
+
+#[test]
+fn folded_terms_still_cancel_where_paths_meet() {
+    // y = x0 + … + x9, each input a real signal rounded to nearest into
+    // Q3.4 (q = 1/16): e_y = Σ ε_k with ε_k in [-1/32, 1/32], so y's bound
+    // is [-10/32, 10/32]. With at most 4 terms per copied form, the copies
+    // of y fold its smallest terms into one internal source η. Then
+    // w = (y + y) - y has the error (2 - 1)·e_y: the bound of w must equal
+    // the bound of y. Had the folded part become an anonymous remainder r,
+    // w would get 2r - r, three times r's width.
+    let mut text = String::new();
+    for k in 0..10 {
+        text.push_str(&format!(
+            "input x{k} : Q3.4 in [-2, 2] quantize nearest-even\n"
+        ));
+    }
+    let sum: Vec<String> = (0..10).map(|k| format!("x{k}")).collect();
+    text.push_str(&format!("let y = {}\n", sum.join(" + ")));
+    text.push_str("let w = (y + y) - y\noutput y\noutput w\n");
+    let path = qbound_report::parse(&text).unwrap();
+    let a = qbound_report::analyze_with(&path, &qbound_report::AnalysisOptions { max_terms: 4 });
+    let y = &a.nodes[path.outputs()[0].node.0].error;
+    let w = &a.nodes[path.outputs()[1].node.0].error;
+    assert_eq!((y.lo.clone(), y.hi.clone()), (q(-10, 32), q(10, 32)));
+    assert_eq!(y, w);
+}
