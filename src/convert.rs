@@ -112,8 +112,13 @@ impl Scaled {
 }
 
 /// Whether rounding the magnitude `mag + frac` (the value's sign is `neg`)
-/// goes up to `mag + 1`. Mirrors the modes onto magnitudes: rounding a
-/// negative value toward −∞ raises its magnitude.
+/// goes up to `mag + 1`, decided by [`Rounding::rounds_up`] on the value
+/// itself. For a positive value the floor is `mag` and the residue `frac`.
+/// For a negative inexact value `-(mag + frac)` the floor is `-(mag + 1)`
+/// (parity opposite to `mag`'s), the residue is `1 - frac` (so its order
+/// against one half is reversed, and its top 64 bits are
+/// `2^64 - frac64 - [sticky]`), and rounding the value up keeps the
+/// magnitude at `mag`.
 const fn magnitude_rounds_up(
     mode: Rounding,
     neg: bool,
@@ -133,29 +138,12 @@ const fn magnitude_rounds_up(
     } else {
         Ordering::Less
     };
-    let greater = matches!(vs_half, Ordering::Greater);
-    let tie = matches!(vs_half, Ordering::Equal);
-    match mode {
-        Rounding::Floor => neg,
-        Rounding::Ceil => !neg,
-        Rounding::TowardZero => false,
-        Rounding::AwayFromZero => true,
-        Rounding::NearestTiesUp => greater || (tie && !neg),
-        Rounding::NearestTiesAway => greater || tie,
-        Rounding::NearestTiesEven => greater || (tie && mag_odd),
-        Rounding::ToOdd => !mag_odd,
-        Rounding::Stochastic(random) => {
-            if neg {
-                // The value's own discarded fraction is 1 - frac; scaled by
-                // 2^64 and rounded down that is 2^64 - frac64 - [sticky].
-                // The value rounds up (the magnitude down) below it.
-                let value_frac = (1u128 << 64) - frac64 as u128 - sticky as u128;
-                (random as u128) >= value_frac
-            } else {
-                random < frac64
-            }
-        }
+    if !neg {
+        return mode.rounds_up(false, vs_half, frac64, mag_odd, false);
     }
+    // Inexact here, so 1 <= 2^64 - frac64 - [sticky] <= 2^64 - 1.
+    let value_frac64 = ((1u128 << 64) - frac64 as u128 - sticky as u128) as u64;
+    !mode.rounds_up(false, vs_half.reverse(), value_frac64, !mag_odd, true)
 }
 
 /// Round a scaled value into `f`: the result's low 128 bits (already

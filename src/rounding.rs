@@ -125,8 +125,11 @@ impl Rounding {
 
     /// Whether to step the floor quotient up by one, given the class of the
     /// discarded part, the quotient's parity and the sign of the exact value.
+    ///
+    /// This is the one definition of the modes; it is a `const fn` so that
+    /// the compile-time conversions (`qconst!`, `from_literal`) use it too.
     #[inline(always)]
-    pub(crate) fn rounds_up(
+    pub(crate) const fn rounds_up(
         self,
         exact: bool,
         vs_half: Ordering,
@@ -138,8 +141,8 @@ impl Rounding {
         // keep the decision branch-free. The nearest modes need no `exact`
         // test: a residue at or above one half is never zero.
         let inexact = !exact;
-        let above = vs_half == Ordering::Greater;
-        let tie = vs_half == Ordering::Equal;
+        let above = matches!(vs_half, Ordering::Greater);
+        let tie = matches!(vs_half, Ordering::Equal);
         match self {
             Rounding::Floor => false,
             Rounding::Ceil => inexact,
