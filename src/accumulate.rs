@@ -16,7 +16,6 @@ use core::fmt;
 use core::ops::Mul;
 
 use crate::format::Format;
-use crate::kernel;
 use crate::rounding::Rounding;
 use crate::storage::Storage;
 use crate::typed::{QType, WidensTo};
@@ -199,12 +198,6 @@ pub fn rescale_slice<S: QType, T: QType>(
     overflow: crate::Overflow,
 ) {
     for (d, s) in dst.iter_mut().zip(src) {
-        let f = kernel::rescale::<_, T::Storage>(
-            s.to_bits(),
-            S::FORMAT.frac_bits(),
-            T::FORMAT,
-            rounding,
-        );
-        *d = T::wrapping_from_bits(f.resolve(T::FORMAT, overflow));
+        *d = crate::typed::rescale_into(*s, rounding, overflow);
     }
 }

@@ -13,7 +13,7 @@ use typenum::{Add1, B1, Max, Maximum, Sum, Unsigned};
 use crate::format::{Format, FormatError};
 use crate::kernel;
 use crate::layout::{SignedLayout, UnsignedLayout};
-use crate::typed::{QType, Sq, Uq, WidensTo};
+use crate::typed::{QType, Sq, Uq, WidensTo, widen_into};
 
 /// Compile-time check that a type-level result format equals the algebra's.
 const fn agrees(typed: Format, algebra: Result<Format, FormatError>) -> bool {
@@ -313,15 +313,3 @@ macro_rules! assign_ops {
 }
 assign_ops!(Sq: SignedLayout);
 assign_ops!(Uq: UnsignedLayout);
-
-/// Lossless conversion used by the assignment operators.
-#[inline(always)]
-fn widen_into<S: WidensTo<T>, T: QType>(x: S) -> T {
-    let f = kernel::rescale::<_, T::Storage>(
-        x.to_bits(),
-        S::FORMAT.frac_bits(),
-        T::FORMAT,
-        crate::Rounding::Floor,
-    );
-    T::wrapping_from_bits(f.wrapped)
-}

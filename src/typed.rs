@@ -222,9 +222,7 @@ macro_rules! typed_common {
             #[inline(always)]
             #[track_caller]
             pub fn rescale<T: QType>(self, rounding: Rounding, overflow: Overflow) -> T {
-                let fitted =
-                    kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
-                T::wrapping_from_bits(fitted.resolve(T::FORMAT, overflow))
+                rescale_into(self, rounding, overflow)
             }
 
             /// Round into the format of `T`; `None` if the rounded value does
@@ -238,9 +236,9 @@ macro_rules! typed_common {
             /// of the range the rounded value fell if it does not fit.
             #[inline(always)]
             pub fn try_rescale<T: QType>(self, rounding: Rounding) -> Result<T, RangeError> {
-                let fitted =
-                    kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, rounding);
-                fitted.checked(T::FORMAT).map(T::wrapping_from_bits)
+                fit_into::<_, T>(self, rounding)
+                    .checked(T::FORMAT)
+                    .map(T::wrapping_from_bits)
             }
 
             /// Convert into a format that holds every value of this one: no
@@ -250,9 +248,7 @@ macro_rules! typed_common {
             where
                 Self: WidensTo<T>,
             {
-                let fitted =
-                    kernel::rescale::<_, T::Storage>(self.bits, F::U32, T::FORMAT, Rounding::Floor);
-                T::wrapping_from_bits(fitted.wrapped)
+                widen_into(self)
             }
 
             /// The product rounded into the format of `T`, for any operand
@@ -471,6 +467,27 @@ macro_rules! typed_common {
             }
         }
     };
+}
+
+/// `x` rounded into the format of `T`, before the overflow mode: the one
+/// path from a typed value into another typed format.
+#[inline(always)]
+pub(crate) fn fit_into<S: QType, T: QType>(x: S, rounding: Rounding) -> kernel::Fitted<T::Storage> {
+    kernel::rescale::<_, T::Storage>(x.to_bits(), S::FORMAT.frac_bits(), T::FORMAT, rounding)
+}
+
+/// `x` rounded into the format of `T` with an overflow mode.
+#[inline(always)]
+#[track_caller]
+pub(crate) fn rescale_into<S: QType, T: QType>(x: S, rounding: Rounding, overflow: Overflow) -> T {
+    T::wrapping_from_bits(fit_into::<S, T>(x, rounding).resolve(T::FORMAT, overflow))
+}
+
+/// `x` in a format that holds every one of its values (exact: the rounding
+/// mode never acts and nothing overflows).
+#[inline(always)]
+pub(crate) fn widen_into<S: WidensTo<T>, T: QType>(x: S) -> T {
+    T::wrapping_from_bits(fit_into::<S, T>(x, Rounding::Floor).wrapped)
 }
 
 /// A signed fixed-point value of format `Q(I, F)`: one sign bit, `I`

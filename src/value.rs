@@ -204,14 +204,19 @@ impl QValue {
         self.bits.is_negative()
     }
 
-    fn finish<D: Storage>(f: Fitted<D>, dst: Format, overflow: Overflow) -> QValue {
+    /// A kernel's result in `dst`, with an overflow mode applied.
+    pub(crate) fn finish<D: Storage>(f: Fitted<D>, dst: Format, overflow: Overflow) -> QValue {
         QValue {
             format: dst,
             bits: f.resolve(dst, overflow).to_wide(),
         }
     }
 
-    fn finish_checked<D: Storage>(f: Fitted<D>, dst: Format) -> Result<QValue, RangeError> {
+    /// A kernel's result in `dst`, or the side it fell on if it does not fit.
+    pub(crate) fn finish_checked<D: Storage>(
+        f: Fitted<D>,
+        dst: Format,
+    ) -> Result<QValue, RangeError> {
         f.checked(dst).map(|b| QValue {
             format: dst,
             bits: b.to_wide(),

@@ -497,14 +497,6 @@ fn ziv<D: Storage>(
 
 use crate::value::with_storage;
 
-fn finish<D: Storage>(f: Fitted<D>, dst: Format, overflow: Overflow) -> QValue {
-    QValue::from_wide_unchecked(dst, f.resolve(dst, overflow).to_wide())
-}
-
-fn finish_checked<D: Storage>(f: Fitted<D>, dst: Format) -> Result<QValue, FunctionError> {
-    Ok(QValue::from_wide_unchecked(dst, f.checked(dst)?.to_wide()))
-}
-
 /// The run-time forms: one macro arm per function shape.
 macro_rules! value_fns {
     ($(
@@ -517,7 +509,7 @@ macro_rules! value_fns {
             #[must_use]
             pub fn $name(self, $($arg: $ty,)* dst: Format, rounding: Rounding, overflow: Overflow) -> QValue {
                 with_storage!(dst, D => match $kernel(self, $($arg,)* dst, rounding) {
-                    Ok(f) => finish::<D>(f, dst, overflow),
+                    Ok(f) => QValue::finish::<D>(f, dst, overflow),
                     Err(e) => domain_panic(e),
                 })
             }
@@ -525,7 +517,7 @@ macro_rules! value_fns {
             /// Like the form without `try_`, with an error instead of a
             /// panic or an overflow mode.
             pub fn $try_name(self, $($arg: $ty,)* dst: Format, rounding: Rounding) -> Result<QValue, FunctionError> {
-                with_storage!(dst, D => finish_checked::<D>($kernel(self, $($arg,)* dst, rounding)?, dst))
+                with_storage!(dst, D => Ok(QValue::finish_checked::<D>($kernel(self, $($arg,)* dst, rounding)?, dst)?))
             }
         )*}
     };

@@ -122,15 +122,23 @@ fn sincos_fitted<D: Storage>(
     })
 }
 
+/// `sin(2π x)` or `cos(2π x)` rounded into `dst`.
+fn turns_fitted<D: Storage>(x: QValue, dst: Format, rnd: Rounding, want_sin: bool) -> Fitted<D> {
+    let p = phase_of_turns(x);
+    let first = first_iters(dst.frac_bits() as i64, rnd);
+    ziv(dst, rnd, first, |n| {
+        let (c, s) = sincos(p, 0, n);
+        if want_sin { s } else { c }
+    })
+}
+
 /// `sin(2π x)` rounded into `dst`.
 pub(crate) fn sin_turns<D: Storage>(
     x: QValue,
     dst: Format,
     rnd: Rounding,
 ) -> Result<Fitted<D>, FunctionError> {
-    let p = phase_of_turns(x);
-    let first = first_iters(dst.frac_bits() as i64, rnd);
-    Ok(ziv(dst, rnd, first, |n| sincos(p, 0, n).1))
+    Ok(turns_fitted(x, dst, rnd, true))
 }
 
 /// `cos(2π x)` rounded into `dst`.
@@ -139,9 +147,7 @@ pub(crate) fn cos_turns<D: Storage>(
     dst: Format,
     rnd: Rounding,
 ) -> Result<Fitted<D>, FunctionError> {
-    let p = phase_of_turns(x);
-    let first = first_iters(dst.frac_bits() as i64, rnd);
-    Ok(ziv(dst, rnd, first, |n| sincos(p, 0, n).0))
+    Ok(turns_fitted(x, dst, rnd, false))
 }
 
 /// `sin(x)` (radians) rounded into `dst`.
