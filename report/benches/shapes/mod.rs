@@ -12,16 +12,19 @@
 //!   rounding mode, wide results rescaled to 24 bits);
 //! - `decaying_cascade`: `s = round(s/2 + c·x)` unrolled. The exact ideal
 //!   range of step `k` needs `k` bits, so the exact result itself grows
-//!   quadratically with the depth: this one measures that cost, not the
-//!   per-node overhead.
+//!   quadratically with the depth unless the analysis rounds outward;
+//! - `recursion`: `y_k = rescale(y_(k-1)·c + x_k, Q0.7, floor, saturate)`
+//!   unrolled, with `c = 0.9` (a decimal constant: exact ranges would need
+//!   more bits at every step);
+//! - `balanced_tree`: the mean of `n/4` quantized samples as a balanced
+//!   tree of `rescale((a + b) >> 1, Q0.15, nearest-even, saturate)`.
 
 #![allow(dead_code)]
 
 use qbound::{Format, Overflow, Rounding};
-use qbound_report::{Builder, Datapath, InputKind, NodeId, parse_decimal};
+use qbound_report::{Builder, Datapath, InputKind, NodeId, Num, parse_decimal};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
-use rug::Rational;
 
 /// A shape by name.
 pub fn by_name(name: &str) -> Option<fn(usize) -> Datapath> {
@@ -30,6 +33,8 @@ pub fn by_name(name: &str) -> Option<fn(usize) -> Datapath> {
         "long_fir" => long_fir,
         "random_blocks" => random_blocks,
         "decaying_cascade" => decaying_cascade,
+        "recursion" => recursion,
+        "balanced_tree" => balanced_tree,
         _ => return None,
     })
 }
@@ -38,8 +43,8 @@ fn q15() -> Format {
     Format::signed(0, 15).unwrap()
 }
 
-fn sample_range() -> (Rational, Rational) {
-    (Rational::from(-1), Rational::from((32767, 32768)))
+fn sample_range() -> (Num, Num) {
+    (Num::from(-1), Num::dyadic(32767, -15))
 }
 
 /// An exact 16-bit sample input in `[-1, 1 - 2^-15]`.
@@ -49,7 +54,7 @@ fn sample(b: &mut Builder, name: &str) -> NodeId {
 }
 
 /// A Q0.15 constant rounded to nearest.
-fn q15_const(b: &mut Builder, name: &str, value: Rational) -> NodeId {
+fn q15_const(b: &mut Builder, name: &str, value: Num) -> NodeId {
     b.constant(name, value, q15(), Rounding::NearestTiesEven)
         .unwrap()
 }
@@ -65,7 +70,7 @@ fn accumulate(b: &mut Builder, s: Option<NodeId>, p: NodeId, acc: Format) -> Nod
 }
 
 /// A coefficient `±0.dddd` (invented), never zero.
-fn coefficient(rng: &mut ChaCha8Rng) -> Rational {
+fn coefficient(rng: &mut ChaCha8Rng) -> Num {
     let d: u32 = rng.random_range(1..5000);
     let v = parse_decimal(&format!("0.{d:04}")).unwrap();
     if rng.random_bool(0.5) { -v } else { v }
@@ -95,7 +100,7 @@ pub fn fir_bank(n: usize) -> Datapath {
         let mut s: Option<NodeId> = None;
         for (k, &x) in xs.iter().enumerate() {
             // Coefficients of magnitude < 0.5/64 keep the sum in range.
-            let c = coefficient(&mut rng) / 64u32;
+            let c = coefficient(&mut rng).mul_pow2(-6);
             let c = q15_const(&mut b, &format!("h{j}_{k}"), c);
             let p = b.mul(c, x).unwrap();
             s = Some(accumulate(&mut b, s, p, acc));
@@ -154,7 +159,7 @@ pub fn random_blocks(n: usize) -> Datapath {
             } else {
                 InputKind::Quantized(Rounding::ALL[rng.random_range(0..Rounding::ALL.len())])
             };
-            let hi = Rational::from((rng.random_range(1..8u32), 4));
+            let hi = Num::dyadic(rng.random_range(1..8), -2);
             let lo = -hi.clone();
             pool.push(
                 b.input(&format!("b{j}_x{k}"), narrow, lo, hi, kind)
@@ -230,5 +235,87 @@ pub fn decaying_cascade(n: usize) -> Datapath {
         k += 1;
     }
     b.output("y", s, None).unwrap();
+    b.build()
+}
+
+/// `y_k = rescale(y_(k-1)·c + x_k, Q0.7, floor, saturate)` unrolled, one
+/// fresh quantized sample `x_k` per step, `c = 0.9`.
+pub fn recursion(n: usize) -> Datapath {
+    let q7 = Format::signed(0, 7).unwrap();
+    let mut b = Builder::new();
+    let c = b
+        .constant(
+            "c",
+            parse_decimal("0.9").unwrap(),
+            q15(),
+            Rounding::NearestTiesEven,
+        )
+        .unwrap();
+    let small = (Num::decimal(-5, -2), Num::decimal(5, -2));
+    let x0 = b
+        .input(
+            "x0",
+            q7,
+            small.0.clone(),
+            small.1.clone(),
+            InputKind::Quantized(Rounding::NearestTiesEven),
+        )
+        .unwrap();
+    let mut y = x0;
+    let mut k = 1;
+    while b.len() + 4 <= n {
+        let x = b
+            .input(
+                &format!("x{k}"),
+                q7,
+                small.0.clone(),
+                small.1.clone(),
+                InputKind::Quantized(Rounding::NearestTiesEven),
+            )
+            .unwrap();
+        let p = b.mul(y, c).unwrap();
+        let t = b.add(p, x).unwrap();
+        y = b.rescale(t, q7, Rounding::Floor, Overflow::Saturate).unwrap();
+        k += 1;
+    }
+    b.output("y", y, None).unwrap();
+    b.build()
+}
+
+/// The mean of `n/4` quantized samples as a balanced tree of
+/// `rescale((a + b) >> 1, Q0.15, nearest-even, saturate)`.
+pub fn balanced_tree(n: usize) -> Datapath {
+    let mut b = Builder::new();
+    let (lo, hi) = sample_range();
+    let leaves = (n / 4).max(2);
+    let mut level: Vec<NodeId> = (0..leaves)
+        .map(|k| {
+            b.input(
+                &format!("x{k}"),
+                q15(),
+                lo.clone(),
+                hi.clone(),
+                InputKind::Quantized(Rounding::NearestTiesEven),
+            )
+            .unwrap()
+        })
+        .collect();
+    while level.len() > 1 {
+        let mut next = Vec::with_capacity(level.len().div_ceil(2));
+        for pair in level.chunks(2) {
+            if let [a, c] = pair {
+                let s = b.add(*a, *c).unwrap();
+                let h = b.shift(s, -1).unwrap();
+                next.push(
+                    b.rescale(h, q15(), Rounding::NearestTiesEven, Overflow::Saturate)
+                        .unwrap(),
+                );
+            } else {
+                next.push(pair[0]);
+            }
+        }
+        level = next;
+    }
+    b.output("mean", level[0], None).unwrap();
     b.build()
 }

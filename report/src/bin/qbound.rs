@@ -15,7 +15,16 @@ use std::time::Duration;
 use clap::{Parser, Subcommand, ValueEnum};
 use qbound_report::gate::{self, SaturationPolicy};
 use qbound_report::render::{self, Context, Style};
-use qbound_report::{Datapath, Report, SimulationOptions, analyze, parse, simulate, vectors};
+use qbound_report::simulate::{self, Control};
+use qbound_report::{Datapath, Report, SimulationOptions, analyze, parse, vectors};
+
+/// Set by the first Ctrl-C: long runs stop after their current batch and
+/// report what they measured. A second Ctrl-C ends the process at once.
+static STOP: AtomicBool = AtomicBool::new(false);
+
+/// The exit status of a run that Ctrl-C cut short (128 + SIGINT, common
+/// practice for shells).
+const EXIT_INTERRUPTED: u8 = 130;
 
 const EXIT_STATUS: &str = "\
 Exit status:
@@ -23,6 +32,7 @@ Exit status:
   1  `check` found a reason to fail (one line per reason)
   2  usage or input error: bad option, missing file, malformed audit text
   3  internal error: the simulation contradicted the analysis (a bug; please report it)
+  130  stopped by Ctrl-C: the report of the vectors done so far was written
 
 The audit supports but does not replace the verification that safety-related
 firmware needs under its applicable safety standard and local practice.";
@@ -183,14 +193,21 @@ fn read_datapath(file: &Path) -> Result<(String, Datapath), Failure> {
     let shown = file.display().to_string();
     let text = match std::fs::read(file) {
         Ok(bytes) => match String::from_utf8(bytes) {
-            Ok(t) => t,
+            // A UTF-8 byte-order mark (some Windows editors write one) is
+            // not part of the text.
+            Ok(t) => t.strip_prefix('\u{feff}').map(str::to_owned).unwrap_or(t),
             Err(e) => {
+                let at = e.utf8_error().valid_up_to();
+                let good = &e.as_bytes()[..at];
+                let line = good.iter().filter(|&&b| b == b'\n').count() + 1;
+                let start = good.iter().rposition(|&b| b == b'\n').map_or(0, |p| p + 1);
+                let column = String::from_utf8_lossy(&good[start..]).chars().count() + 1;
                 return Err(input_error(
                     &format!(
-                        "{shown} is not UTF-8 text (invalid byte at offset {})",
-                        e.utf8_error().valid_up_to()
+                        "{shown}:{line}:{column}: not UTF-8 text (byte 0x{:02x} cannot start or continue a character here)",
+                        e.as_bytes()[at]
                     ),
-                    "give an audit text file (see report/FORMAT.md)",
+                    "save the audit file as UTF-8 (see report/FORMAT.md)",
                 ));
             }
         },
@@ -254,15 +271,36 @@ fn with_progress<T: Send>(quiet: bool, message: &str, f: impl FnOnce() -> T + Se
     })
 }
 
+/// A progress bar on stderr for `total` steps (hidden when `quiet` or when
+/// stderr is not a terminal).
+fn progress_bar(quiet: bool, total: u64, what: &str) -> indicatif::ProgressBar {
+    if quiet || !io::stderr().is_terminal() {
+        return indicatif::ProgressBar::hidden();
+    }
+    let bar = indicatif::ProgressBar::new(total);
+    bar.set_style(
+        indicatif::ProgressStyle::with_template(
+            "{spinner} {msg} [{bar:30}] {human_pos}/{human_len} ({per_sec}, about {eta} left; Ctrl-C stops and reports)",
+        )
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar())
+        .progress_chars("=> "),
+    );
+    bar.set_message(what.to_owned());
+    bar.enable_steady_tick(Duration::from_millis(200));
+    bar
+}
+
+/// The report of `path`, with a simulation of `vectors` random vectors
+/// (none for 0). Returns whether Ctrl-C stopped the simulation.
 fn run_report(
     path: &Datapath,
     vectors: u64,
     seed: Option<u64>,
     quiet: bool,
-) -> Result<Report, Failure> {
-    let analysis = analyze(path);
+) -> Result<(Report, bool), Failure> {
+    let analysis = with_progress(quiet, "analysing", || analyze(path));
     if vectors == 0 {
-        return Ok(analysis.report(path));
+        return Ok((analysis.report(path), false));
     }
     let mut opts = SimulationOptions {
         random_vectors: vectors,
@@ -271,12 +309,25 @@ fn run_report(
     if let Some(s) = seed {
         opts.seed = s;
     }
-    with_progress(
-        quiet,
-        &format!("simulating {vectors} random vectors and the corners"),
-        || simulate(path, &analysis, &opts).map_err(|e| e.to_string()),
-    )
-    .map_err(Failure::Bug)
+    if !quiet && !io::stderr().is_terminal() && vectors >= 10_000_000 {
+        eprintln!(
+            "qbound: simulating {vectors} random vectors; Ctrl-C stops and reports the measurements so far"
+        );
+    }
+    let bar = progress_bar(quiet, vectors, "simulating");
+    let progress = |done: u64, _total: u64| bar.set_position(done);
+    let control = Control {
+        progress: Some(&progress),
+        stop: Some(&STOP),
+    };
+    let sim = simulate::run(path, &analysis, &opts, control).map_err(|e| Failure::Bug(e.to_string()));
+    bar.finish_and_clear();
+    let sim = sim?;
+    let interrupted = sim.summary.interrupted;
+    Ok((
+        qbound_report::verdict::assemble(path, &analysis, Some(&sim)),
+        interrupted,
+    ))
 }
 
 fn audit(a: &AuditArgs) -> Result<ExitCode, Failure> {
@@ -291,7 +342,7 @@ fn audit(a: &AuditArgs) -> Result<ExitCode, Failure> {
         (None, None) => Style::Terminal,
     };
     let (text, path) = read_datapath(&a.file)?;
-    let report = run_report(&path, a.vectors, a.seed, a.quiet)?;
+    let (report, interrupted) = run_report(&path, a.vectors, a.seed, a.quiet)?;
     let mut ctx = Context::new(&a.file.display().to_string());
     ctx.source = Some(text);
     ctx.color = match a.color {
@@ -303,18 +354,14 @@ fn audit(a: &AuditArgs) -> Result<ExitCode, Failure> {
                 && std::env::var_os("NO_COLOR").is_none()
         }
     } && style == Style::Terminal;
-    if style == Style::Html && a.vectors > 0 {
-        let samples = a.vectors.min(20_000);
-        let seed = a.seed.unwrap_or(SimulationOptions::default().seed);
-        ctx.histograms = with_progress(a.quiet, "sampling error histograms", || {
-            vectors::error_histograms(&path, &report, samples, seed, 48, &|_| {})
-        });
-    }
-    let mut buf = Vec::new();
-    render::render(&report, &ctx, style, &mut buf).map_err(|e| Failure::Bug(e.to_string()))?;
     match &a.output {
         Some(o) => {
-            if let Err(e) = std::fs::write(o, &buf) {
+            let written = std::fs::File::create(o).and_then(|f| {
+                let mut w = io::BufWriter::new(f);
+                render::render(&report, &ctx, style, &mut w)?;
+                w.flush()
+            });
+            if let Err(e) = written {
                 return Err(input_error(
                     &format!("cannot write {}: {e}", o.display()),
                     "check that the directory exists and is writable",
@@ -325,17 +372,25 @@ fn audit(a: &AuditArgs) -> Result<ExitCode, Failure> {
             }
         }
         None => {
-            let mut out = io::stdout().lock();
+            let mut out = io::BufWriter::new(io::stdout().lock());
             // A closed pipe (`| head`) is not an error of ours.
-            let _ = out.write_all(&buf).and_then(|()| out.flush());
+            let _ = render::render(&report, &ctx, style, &mut out).and_then(|()| out.flush());
         }
+    }
+    if interrupted {
+        eprintln!("qbound: interrupted by Ctrl-C: the report holds the vectors done so far");
+        return Ok(ExitCode::from(EXIT_INTERRUPTED));
     }
     Ok(ExitCode::SUCCESS)
 }
 
 fn check(a: &CheckArgs) -> Result<ExitCode, Failure> {
     let (_, path) = read_datapath(&a.file)?;
-    let report = run_report(&path, a.simulate, a.seed, a.quiet)?;
+    let (report, interrupted) = run_report(&path, a.simulate, a.seed, a.quiet)?;
+    if interrupted {
+        eprintln!("qbound: interrupted by Ctrl-C: no verdict");
+        return Ok(ExitCode::from(EXIT_INTERRUPTED));
+    }
     let policy = SaturationPolicy::from_names(&a.allow_saturation);
     let unknown = policy.unknown_names(&report);
     if !unknown.is_empty() {
@@ -382,13 +437,28 @@ fn write_vectors(a: &VectorArgs) -> Result<ExitCode, Failure> {
         Ok(s) => s,
         Err(e) => return Err(input_error(&e.to_string(), "")),
     };
-    match set.write_dir(&a.out_dir) {
-        Ok(files) => {
+    let bar = progress_bar(a.quiet, a.count, "writing vectors");
+    let progress = |done: u64| {
+        bar.set_position(done);
+        !STOP.load(Ordering::Relaxed)
+    };
+    let written = set.write_dir(&a.out_dir, &progress);
+    bar.finish_and_clear();
+    match written {
+        Ok((files, stats)) => {
+            if stats.panicked_rows > 0 {
+                eprintln!(
+                    "warning: in {} of {} vectors a rescale whose overflow mode is `panic` overflowed; \
+those rows hold the saturated value, which panicking firmware never produces \
+(see the node's overflow verdict in `qbound audit`)",
+                    stats.panicked_rows, stats.rows
+                );
+            }
             if !a.quiet {
                 println!(
                     "wrote {} vectors ({} corners first, then random; seed {}) to {}:",
-                    set.rows.len(),
-                    set.corners,
+                    stats.rows,
+                    set.corners.min(stats.rows),
                     a.seed,
                     a.out_dir.display()
                 );
@@ -401,6 +471,13 @@ fn write_vectors(a: &VectorArgs) -> Result<ExitCode, Failure> {
                     );
                 }
                 println!("  {}", files[0].display());
+            }
+            if stats.rows < a.count {
+                eprintln!(
+                    "qbound: interrupted by Ctrl-C after {} of {} vectors",
+                    stats.rows, a.count
+                );
+                return Ok(ExitCode::from(EXIT_INTERRUPTED));
             }
             Ok(ExitCode::SUCCESS)
         }
@@ -441,6 +518,12 @@ fn describe(a: &DescribeArgs) -> Result<ExitCode, Failure> {
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
+    // First Ctrl-C: stop after the current batch and report; second: now.
+    let _ = ctrlc::set_handler(|| {
+        if STOP.swap(true, Ordering::SeqCst) {
+            std::process::exit(i32::from(EXIT_INTERRUPTED));
+        }
+    });
     let r = match &cli.command {
         Command::Audit(a) => audit(a),
         Command::Check(a) => check(a),

@@ -5,7 +5,7 @@ use std::io::{self, Write};
 
 use super::svg::{self, escape};
 use super::{Context, NodeRow, SAFETY_CAUTION, num};
-use crate::result::{Report, Severity};
+use crate::verdict::{Report, Severity};
 
 const STYLE: &str = "
 body{font-family:system-ui,-apple-system,'Segoe UI',sans-serif;color:#2b2f36;margin:0;background:#f4f5f7}
@@ -40,13 +40,7 @@ pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result
         "<html lang=\"en\"><head><meta charset=\"utf-8\"><title>qbound audit: {title}</title><style>{STYLE}</style></head><body><main>"
     )?;
     writeln!(out, "<h1>qbound audit: {title}</h1>")?;
-    let sub = match &report.simulation {
-        Some(s) => format!(
-            "Sound worst-case analysis, confirmed by a bit-exact simulation against exact arithmetic: {} random, {} corner and {} search vectors (seed {}); no measured error passed its bound.",
-            s.random_vectors, s.corner_vectors, s.search_vectors, s.seed
-        ),
-        None => "Sound worst-case analysis only (no simulation).".to_owned(),
-    };
+    let sub = super::simulation_sentence(report.simulation.as_ref());
     writeln!(out, "<p class=\"sub\">{}</p>", escape(&sub))?;
     writeln!(
         out,
@@ -92,7 +86,7 @@ pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result
         }
         writeln!(out, "</div>")?;
         writeln!(out, "<div class=\"plots\">")?;
-        if let Some(h) = ctx.histograms.iter().find(|h| h.output == o.name) {
+        if let Some(h) = &o.histogram {
             writeln!(out, "{}", svg::histogram(h, o))?;
         }
         writeln!(out, "{}", svg::contributions(o))?;

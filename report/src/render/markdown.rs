@@ -4,7 +4,7 @@
 use std::io::{self, Write};
 
 use super::{Context, NodeRow, SAFETY_CAUTION, line_of, num};
-use crate::result::{Report, Severity};
+use crate::verdict::{Report, Severity};
 
 /// Escape the characters that break a table cell.
 fn md(s: &str) -> String {
@@ -20,14 +20,11 @@ fn md(s: &str) -> String {
 pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "# qbound audit: {}", md(&ctx.title))?;
     writeln!(out)?;
-    match &report.simulation {
-        Some(s) => writeln!(
-            out,
-            "Sound analysis, confirmed by a bit-exact simulation against exact arithmetic: {} random, {} corner and {} search vectors (seed {}).",
-            s.random_vectors, s.corner_vectors, s.search_vectors, s.seed
-        )?,
-        None => writeln!(out, "Sound analysis only (no simulation).")?,
-    }
+    writeln!(
+        out,
+        "{}",
+        super::simulation_sentence(report.simulation.as_ref())
+    )?;
     writeln!(out)?;
     writeln!(out, "## Outputs")?;
     writeln!(out)?;

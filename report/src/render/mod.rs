@@ -14,8 +14,7 @@
 
 use std::io::{self, Write};
 
-use crate::result::{NodeReport, RangeReport, Report};
-use crate::vectors::ErrorHistogram;
+use crate::verdict::{NodeReport, RangeReport, Report};
 
 pub mod html;
 pub mod markdown;
@@ -71,9 +70,6 @@ pub struct Context {
     pub source: Option<String>,
     /// Colour the terminal output with ANSI escapes.
     pub color: bool,
-    /// Error histograms per output (for the HTML plots), from
-    /// [`crate::vectors::error_histograms`].
-    pub histograms: Vec<ErrorHistogram>,
 }
 
 impl Context {
@@ -100,67 +96,42 @@ pub fn render(report: &Report, ctx: &Context, style: Style, out: &mut dyn Write)
     match style {
         Style::Terminal => terminal::render(report, ctx, out),
         Style::Markdown => markdown::render(report, ctx, out),
-        Style::Json => writeln!(out, "{}", report.to_json()),
+        Style::Json => {
+            report.write_json(out)?;
+            writeln!(out)
+        }
         Style::Html => html::render(report, ctx, out),
     }
 }
 
-/// A number for people: four significant digits, plain decimal between
-/// 0.001 and 10⁶, scientific outside, `0` for zero.
-///
-/// ```
-/// use qbound_report::render::num;
-/// assert_eq!(num(0.0), "0");
-/// assert_eq!(num(1.5), "1.5");
-/// assert_eq!(num(-0.000030517578125), "-3.052e-5");
-/// assert_eq!(num(12345.678), "12346");
-/// ```
-#[must_use]
-pub fn num(x: f64) -> String {
-    num_sig(x, 4)
-}
+pub use crate::arith::{num, num_sig};
 
-/// A number with `sig` significant digits (at least 1), as [`num`]; plain
-/// decimals reach up to `10^(sig + 2)` (at least 10⁶).
+/// One sentence on what confirmed the analysis, for every renderer.
 ///
 /// ```
-/// assert_eq!(qbound_report::render::num_sig(0.999969482421875, 6), "0.999969");
+/// let s = qbound_report::render::simulation_sentence(None);
+/// assert_eq!(s, "Sound analysis only (no simulation).");
 /// ```
 #[must_use]
-pub fn num_sig(x: f64, sig: u32) -> String {
-    let sig = i32::try_from(sig.max(1)).unwrap_or(17);
-    if x == 0.0 {
-        return "0".to_owned();
+pub fn simulation_sentence(sim: Option<&crate::simulate::SimulationSummary>) -> String {
+    let Some(s) = sim else {
+        return "Sound analysis only (no simulation).".to_owned();
+    };
+    let mut t = format!(
+        "Sound analysis, confirmed by a bit-exact simulation against exact arithmetic: {} random, {} corner ({}) and {} search vectors (seed {}); no measured error passed its bound.",
+        s.random_vectors,
+        s.corner_vectors,
+        if s.all_corners { "all" } else { "sampled" },
+        s.search_vectors,
+        s.seed
+    );
+    if s.interrupted {
+        t.push_str(&format!(
+            " INTERRUPTED after {} of {} random vectors (no corners, no search): the measurements are partial.",
+            s.random_vectors, s.random_vectors_requested
+        ));
     }
-    if !x.is_finite() {
-        return format!("{x}");
-    }
-    let a = x.abs();
-    // Plain decimals up to 10^(sig + 2): ADC counts read better as 7800000.
-    if (1e-3..10f64.powi(sig + 2).max(1e6)).contains(&a) {
-        let digits = (sig - 1 - a.log10().floor() as i32).max(0) as usize;
-        let s = format!("{x:.digits$}");
-        if s.contains('.') {
-            s.trim_end_matches('0').trim_end_matches('.').to_owned()
-        } else {
-            s
-        }
-    } else {
-        let prec = (sig - 1) as usize;
-        let s = format!("{x:.prec$e}");
-        // 3.000e-5 -> 3e-5
-        match s.split_once('e') {
-            Some((m, e)) => {
-                let m = if m.contains('.') {
-                    m.trim_end_matches('0').trim_end_matches('.')
-                } else {
-                    m
-                };
-                format!("{m}e{e}")
-            }
-            None => s,
-        }
-    }
+    t
 }
 
 /// `[lo, hi]` with six significant digits (so `0.999969` does not read
@@ -175,7 +146,7 @@ pub fn range_text(r: &RangeReport) -> String {
 #[must_use]
 pub fn format_limits(format: &str) -> Option<(f64, f64)> {
     let f: qbound::Format = format.parse().ok()?;
-    let r = crate::exact::format_range(f);
+    let r = crate::arith::format_range(f);
     Some((r.lo.to_f64(), r.hi.to_f64()))
 }
 

@@ -3,7 +3,7 @@
 
 use std::io::{self, Write};
 
-use crate::parse::ParseError;
+use crate::model::parse::ParseError;
 
 /// Write `err` (found in `text`, read from `file`) as
 ///

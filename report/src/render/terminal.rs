@@ -6,7 +6,7 @@
 use std::io::{self, Write};
 
 use super::{Context, NodeRow, SAFETY_CAUTION, num};
-use crate::result::{Report, Severity};
+use crate::verdict::{Report, Severity};
 
 /// ANSI styling that can be switched off.
 #[derive(Clone, Copy)]
@@ -101,20 +101,11 @@ fn table(out: &mut dyn Write, p: Paint, head: &[&str], rows: &[Vec<Cell>]) -> io
 pub fn render(report: &Report, ctx: &Context, out: &mut dyn Write) -> io::Result<()> {
     let p = Paint(ctx.color);
     writeln!(out, "{} {}", p.bold("qbound audit:"), ctx.title)?;
-    match &report.simulation {
-        Some(s) => writeln!(
-            out,
-            "{}",
-            p.dim(&format!(
-                "sound analysis + bit-exact simulation: {} random, {} corner{}, {} search vectors (seed {}); no measured error passed its bound",
-                s.random_vectors,
-                s.corner_vectors,
-                if s.all_corners { "s (all)" } else { "s (sampled)" },
-                s.search_vectors,
-                s.seed
-            ))
-        )?,
-        None => writeln!(out, "{}", p.dim("sound analysis only (no simulation)"))?,
+    let sentence = super::simulation_sentence(report.simulation.as_ref());
+    if report.simulation.as_ref().is_some_and(|s| s.interrupted) {
+        writeln!(out, "{}", p.red(&sentence))?;
+    } else {
+        writeln!(out, "{}", p.dim(&sentence))?;
     }
     writeln!(out)?;
     writeln!(out, "{}", p.bold("Nodes"))?;

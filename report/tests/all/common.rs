@@ -1,6 +1,7 @@
 //! Shared helpers.
 
-use qbound_report::{Datapath, Report, SimulationOptions, analyze, parse, simulate};
+use qbound_report::arith::Exact;
+use qbound_report::{Datapath, Num, Report, SimulationOptions, analyze, parse, simulate};
 use rug::Rational;
 
 /// Parse, analyse and simulate; panics (failing the test) on any error,
@@ -29,7 +30,24 @@ pub fn bound(r: &Report, label: &str) -> (Rational, Rational) {
         .find(|n| n.label == label)
         .unwrap_or_else(|| panic!("no node {label}"));
     (
-        n.error.lo.rational().unwrap(),
-        n.error.hi.rational().unwrap(),
+        ExactExt::rational(&n.error.lo).unwrap(),
+        ExactExt::rational(&n.error.hi).unwrap(),
     )
+}
+
+/// A [`Num`] as a `rug` rational (the test oracle).
+pub fn rat(n: &Num) -> Rational {
+    n.to_string().parse().unwrap()
+}
+
+/// The exact text of a report field as a `rug` rational.
+pub trait ExactExt {
+    /// The rational, if the text is one.
+    fn rational(&self) -> Option<Rational>;
+}
+
+impl ExactExt for Exact {
+    fn rational(&self) -> Option<Rational> {
+        self.exact.parse().ok()
+    }
 }

@@ -2,7 +2,7 @@
 //! 40-bit accumulation, one final rounding. The bound must be within 1% of
 //! the worst error the simulation finds.
 
-use crate::common::audit;
+use crate::common::{ExactExt, audit};
 
 #[test]
 fn fir64_bound_within_one_percent_of_worst_simulated() {

@@ -7,8 +7,7 @@ use std::sync::Mutex;
 
 use proptest::prelude::*;
 use qbound::{Format, Overflow, Rounding};
-use qbound_report::{Builder, InputKind, NodeId, SimulationOptions, analyze, simulate};
-use rug::Rational;
+use qbound_report::{Builder, InputKind, NodeId, Num, SimulationOptions, analyze, simulate};
 
 #[derive(Clone, Debug)]
 enum Step {
@@ -62,11 +61,14 @@ fn build(
     let mut ids: Vec<NodeId> = Vec::new();
     for (k, &((s, i, f), (a, c), kind)) in inputs.iter().enumerate() {
         let fmt = Format::new(s, i, f).ok()?;
-        let r = qbound_report::exact::format_range(fmt);
-        let span = Rational::from(&r.hi - &r.lo);
+        let r = qbound_report::arith::format_range(fmt);
+        let span = &r.hi - &r.lo;
         let (a, c) = (a.min(c), a.max(c));
-        let lo: Rational = &r.lo + &span * Rational::from((a, 65535u32));
-        let hi: Rational = &r.lo + &span * Rational::from((c, 65535u32));
+        // Decimal fractions of the range (five digits), so that decimal
+        // range ends are exercised.
+        let frac = |x: u16| Num::decimal(i128::from(x) * 100_000 / 65535, -5);
+        let lo = &r.lo + &span * frac(a);
+        let hi = &r.lo + &span * frac(c);
         let kind = kind.map_or(InputKind::Exact, |m| {
             InputKind::Quantized(Rounding::ALL[m % 9])
         });
@@ -74,7 +76,7 @@ fn build(
     }
     for (k, &(v, (s, i, f))) in consts.iter().enumerate() {
         let fmt = Format::new(s, i, f).ok()?;
-        let value = Rational::from((v, 977));
+        let value = Num::decimal(i128::from(v), -3);
         if let Ok(id) = b.constant(&format!("c{k}"), value, fmt, Rounding::NearestTiesEven) {
             ids.push(id);
         }
@@ -141,6 +143,7 @@ fn simulation_never_exceeds_the_bound() {
             max_corners: 64,
             search: true,
             search_steps: 4,
+            ..SimulationOptions::default()
         };
         let r = simulate(&path, &a, &opts).map_err(|e| TestCaseError::fail(e.to_string()))?;
         *simulated.lock().unwrap() += 1;

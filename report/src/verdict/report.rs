@@ -13,36 +13,12 @@
 //!          simulation: SimulationSummary | null, diagnostics: [Diagnostic] }
 //! ```
 
-use rug::Rational;
 use serde::{Deserialize, Serialize};
 
+pub use crate::analysis::SourceKind;
+pub use crate::arith::Exact;
 use crate::model::Span;
-
-/// An exact rational with an `f64` approximation for display.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-pub struct Exact {
-    /// The exact value, `p/q` or an integer, in lowest terms.
-    pub exact: String,
-    /// The nearest `f64` (display only).
-    pub approx: f64,
-}
-
-impl Exact {
-    /// From a rational.
-    #[must_use]
-    pub fn new(x: &Rational) -> Exact {
-        Exact {
-            exact: x.to_string(),
-            approx: x.to_f64(),
-        }
-    }
-
-    /// The exact value back as a rational (`None` if the text is not one).
-    #[must_use]
-    pub fn rational(&self) -> Option<Rational> {
-        self.exact.parse::<Rational>().ok()
-    }
-}
+pub use crate::simulate::{ErrorHistogram, Measured, SimulationSummary};
 
 /// A closed range `[lo, hi]`.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -112,28 +88,6 @@ pub struct ErrorStats {
     pub std_dev: f64,
 }
 
-/// What the simulation measured at a node.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-pub struct Measured {
-    /// Number of vectors evaluated (random + corners + search).
-    pub samples: u64,
-    /// Largest |error| seen over all vectors (exact).
-    pub max_abs: Exact,
-    /// Mean error over the random vectors.
-    pub mean: f64,
-    /// Root-mean-square error over the random vectors.
-    pub rms: f64,
-    /// Standard deviation of the error over the random vectors.
-    pub std_dev: f64,
-    /// Mean square of the ideal value over the random vectors.
-    pub signal_power: f64,
-    /// Bound / measured max error (`None` when the measured max is 0).
-    pub tightness: Option<f64>,
-    /// Times the overflow mode acted (saturated, wrapped or would have
-    /// panicked) over all vectors.
-    pub overflow_events: u64,
-}
-
 /// One node's analysis.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct NodeReport {
@@ -168,22 +122,6 @@ pub struct NodeReport {
     pub stats: ErrorStats,
     /// Simulation results, if a simulation ran.
     pub measured: Option<Measured>,
-}
-
-/// The kind of an error source.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
-#[serde(rename_all = "snake_case")]
-pub enum SourceKind {
-    /// The rounding of a rescale.
-    Rounding,
-    /// A constant's quantization (a known number).
-    Constant,
-    /// A real input's quantization.
-    InputQuantization,
-    /// Saturation at a node (clamping).
-    Saturation,
-    /// Wrap-around at a node.
-    Wrap,
 }
 
 /// One error source.
@@ -265,6 +203,9 @@ pub struct OutputReport {
     pub contributions: Vec<Contribution>,
     /// Simulation results for the output node.
     pub measured: Option<Measured>,
+    /// The error over the random vectors, binned over the sound bound, if
+    /// the simulation ran.
+    pub histogram: Option<ErrorHistogram>,
 }
 
 /// A finding for people (overflow, budget, rounding that adds nothing...).
@@ -278,26 +219,6 @@ pub struct Diagnostic {
     pub span: Option<Span>,
     /// The message.
     pub message: String,
-}
-
-/// What the simulation did.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-pub struct SimulationSummary {
-    /// The seed of the random vectors.
-    pub seed: u64,
-    /// Random vectors (inputs uniform over their ranges).
-    pub random_vectors: u64,
-    /// Corner vectors (every input at an end of its range).
-    pub corner_vectors: u64,
-    /// Whether the corners were all of them or a sample.
-    pub all_corners: bool,
-    /// Vectors evaluated by the worst-case search.
-    pub search_vectors: u64,
-    /// Node evaluations (fixed-point side; the exact side did as many).
-    pub node_evaluations: u64,
-    /// Whether any measured error passed its bound (never, unless the
-    /// analysis has a bug: the run fails with an error in that case).
-    pub bound_violations: u64,
 }
 
 /// The audit of one datapath.
@@ -333,5 +254,16 @@ impl Report {
     #[must_use]
     pub fn to_json(&self) -> String {
         serde_json::to_string_pretty(self).expect("plain data serialises")
+    }
+
+    /// Write the report as pretty-printed JSON to `w` as it serialises (no
+    /// copy of the text is held: a million-node report streams out).
+    ///
+    /// # Errors
+    /// Whatever writing to `w` returns.
+    pub fn write_json(&self, w: &mut dyn std::io::Write) -> std::io::Result<()> {
+        let mut w = std::io::BufWriter::with_capacity(1 << 16, w);
+        serde_json::to_writer_pretty(&mut w, self).map_err(std::io::Error::other)?;
+        std::io::Write::flush(&mut w)
     }
 }

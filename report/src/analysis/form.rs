@@ -1,27 +1,38 @@
-//! The working affine form of the analysis: the same content as the public
-//! [`Affine`], in a representation that keeps the cost of every node
-//! independent of how many sources reach it.
+//! Error forms: the error of a node as an affine form in the error sources,
 //!
-//! - A lazy point factor `scale` multiplies everything in the form, so a
-//!   shift or a negation is one multiplication, not one per term.
-//! - The exact interval of the form (`Σ coef·ε + rem`, before `scale`) is
-//!   kept as a running sum: a merge adds and subtracts the end points of the
-//!   terms it touches (interval sums are sums of end points, so this is
-//!   exact).
+//! ```text
+//! e = Σ_s  g_s · ε_s  +  r
+//! ```
+//!
+//! (public: [`Source`], [`Term`], [`Affine`]), and the working form of the
+//! analysis ([`Form`], crate-private), which holds the same content in a
+//! representation that keeps the cost of every node independent of how
+//! many sources reach it:
+//!
+//! - A lazy unit factor `scale` (`±2^a·5^b`: shifts, negations, decimal
+//!   powers of ten) multiplies everything in the form, so a shift or a
+//!   negation is one multiplication, not one per term. Any other constant
+//!   factor is pushed into the terms.
+//! - The interval of the form (`Σ coef·ε + rem`, before `scale`) is kept as
+//!   a running sum: a merge adds and subtracts the end points of the terms
+//!   it touches (interval sums are sums of end points). Each update rounds
+//!   the lower sum down and the upper sum up when the exact value would
+//!   pass the analysis' precision, so the running sum always encloses the
+//!   exact one.
 //! - A form whose node has no later use is moved into its consumer, not
 //!   copied; a merge inserts the smaller form into the larger one.
 //! - `owners[s]` counts the working forms that hold a term of source `s`.
 //!   Terms that no other form holds can be replaced by one internal source
-//!   `η` ranging over the exact sum of their intervals (coefficient 1):
-//!   the sum of independent terms ranges over exactly that interval, and
-//!   `η` is tracked like any source afterwards (copies of the form that
-//!   meet again still cancel it), so no bound changes. This is done for
-//!   negligible terms (below `2^-TINY_BITS` of the form's total, so that
-//!   the per-source attribution only loses what it would show as 0 %) when
-//!   the form has doubled since its last scan, and for all of them when a
-//!   form with more than `MATERIALIZE_KEEP` terms is multiplied by a
-//!   signal's range. At the outputs internal sources are reported as part
-//!   of the remainder.
+//!   `η` ranging over the sum of their intervals (coefficient 1): the sum of
+//!   independent terms ranges over exactly that interval, and `η` is
+//!   tracked like any source afterwards (copies of the form that meet again
+//!   still cancel it), so no bound changes. This is done for negligible
+//!   terms (below `2^-TINY_BITS` of the form's total, so that the
+//!   per-source attribution only loses what it would show as 0 %) when the
+//!   form has doubled since its last scan, and for all of them when a form
+//!   with more than `MATERIALIZE_KEEP` terms is multiplied by a signal's
+//!   range. At the outputs internal sources are reported as part of the
+//!   remainder.
 //! - Copies (a node with several consumers) and multiplications by a signal
 //!   of a form with more than `max_terms` terms first fold its smallest
 //!   terms into one internal source (sound; looser only if a folded source
@@ -30,20 +41,108 @@
 
 use std::collections::BTreeMap;
 
-use rug::Rational;
+use crate::arith::{Direction, Interval, Num};
+use crate::model::NodeId;
 
-use crate::analysis::{Affine, Source, Term};
-use crate::exact::Interval;
+/// The kind of an error source.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum SourceKind {
+    /// The rounding of a rescale.
+    Rounding,
+    /// A constant's quantization (a known number).
+    Constant,
+    /// A real input's quantization.
+    InputQuantization,
+    /// Saturation at a node (clamping).
+    Saturation,
+    /// Wrap-around at a node.
+    Wrap,
+}
+
+/// One error source: where an error enters the datapath.
+#[derive(Clone, Debug)]
+pub struct Source {
+    /// The node where it enters.
+    pub node: NodeId,
+    /// Its kind.
+    pub kind: SourceKind,
+    /// An interval holding every error it can add.
+    pub eps: Interval,
+    /// Mean (noise model).
+    pub mean: f64,
+    /// Variance (noise model).
+    pub var: f64,
+    /// A label for people.
+    pub label: String,
+}
+
+/// One term `g · ε_s` of an affine form.
+#[derive(Clone, Debug)]
+pub struct Term {
+    /// Source index.
+    pub src: usize,
+    /// Coefficient interval.
+    pub coef: Interval,
+    /// Mean of the coefficient (noise model).
+    pub gm: f64,
+    /// Variance of the coefficient (noise model).
+    pub gv: f64,
+}
+
+/// An error as an affine form in the sources plus a remainder interval.
+#[derive(Clone, Debug)]
+pub struct Affine {
+    /// Terms, sorted by source index.
+    pub terms: Vec<Term>,
+    /// Remainder interval.
+    pub rem: Interval,
+    /// Remainder mean (noise model).
+    pub rem_mean: f64,
+    /// Remainder variance (noise model).
+    pub rem_var: f64,
+}
+
+impl Affine {
+    /// An interval holding every value of the form.
+    #[must_use]
+    pub fn interval(&self, sources: &[Source]) -> Interval {
+        let mut acc = self.rem.clone();
+        for t in &self.terms {
+            acc = acc.add(&term_interval(t, sources));
+        }
+        acc
+    }
+
+    /// Predicted mean and variance of the form.
+    #[must_use]
+    pub fn moments(&self, sources: &[Source]) -> (f64, f64) {
+        let mut mean = self.rem_mean;
+        let mut var = self.rem_var;
+        for t in &self.terms {
+            let (m, v) = moments(t.gm, t.gv, &sources[t.src]);
+            mean += m;
+            var += v;
+        }
+        (mean, var)
+    }
+}
+
+/// The interval `coef × ε_s` of one term.
+#[must_use]
+pub fn term_interval(t: &Term, sources: &[Source]) -> Interval {
+    t.coef.mul(&sources[t.src].eps)
+}
 
 /// Terms below `2^-TINY_BITS` of the form's total are folded when their
 /// source cannot come back (lossless for the bound).
-const TINY_BITS: u32 = 24;
+const TINY_BITS: i64 = 24;
 /// A product with a signal folds every term that cannot come back when the
 /// form holds more than this many terms.
 const MATERIALIZE_KEEP: usize = 32;
-/// The lazy scale is pushed into the terms once its numerator or
-/// denominator grows beyond this many bits (keeps the f64 moments finite).
-const SCALE_BITS: u32 = 60;
+/// The lazy scale is pushed into the terms once it costs more than this
+/// many bits (keeps the f64 moments finite).
+const SCALE_BITS: u64 = 60;
 
 #[derive(Clone, Debug)]
 struct WTerm {
@@ -58,23 +157,10 @@ struct WTerm {
     v: f64,
 }
 
-impl WTerm {
-    fn new(coef: Interval, gm: f64, gv: f64, (eps, mean, var): (&Interval, f64, f64)) -> WTerm {
-        let iv = coef.mul(eps);
-        let (m, v) = moments_of(gm, gv, mean, var);
-        WTerm {
-            coef,
-            iv,
-            gm,
-            gv,
-            m,
-            v,
-        }
-    }
-}
-
-/// Mean and variance of `g·ε` for independent `g` and `ε`.
-pub(crate) fn moments(gm: f64, gv: f64, s: &Source) -> (f64, f64) {
+/// Mean and variance of `g·ε` for independent `g` and `ε`:
+/// `E[gε] = E[g]E[ε]`, `Var = E[g²]E[ε²] - (E[g]E[ε])²`.
+#[must_use]
+pub fn moments(gm: f64, gv: f64, s: &Source) -> (f64, f64) {
     moments_of(gm, gv, s.mean, s.var)
 }
 
@@ -89,18 +175,22 @@ fn moments_of(gm: f64, gv: f64, mean: f64, var: f64) -> (f64, f64) {
 const SYNTH: usize = 1 << (usize::BITS - 1);
 
 /// Bookkeeping shared by all working forms of one analysis: how many live
-/// forms hold each source, and the internal sources made by folding.
+/// forms hold each source, the internal sources made by folding, and the
+/// precision of the interval ends.
 pub(crate) struct Owners {
     count: Vec<u32>,
     /// Range, mean, variance and owner count of each internal source.
     synth: Vec<(Interval, f64, f64, u32)>,
+    /// Significant bits kept at an interval end that costs more.
+    pub(crate) prec: u32,
 }
 
 impl Owners {
-    pub(crate) fn new() -> Owners {
+    pub(crate) fn new(prec: u32) -> Owners {
         Owners {
             count: Vec::new(),
             synth: Vec::new(),
+            prec,
         }
     }
 
@@ -137,16 +227,24 @@ impl Owners {
     }
 }
 
+/// Round `x` toward `dir` if it costs more than `prec` bits.
+pub(crate) fn tame(x: &mut Num, prec: u32, dir: Direction) {
+    if prec != u32::MAX && x.cost_bits() > u64::from(prec) {
+        *x = x.round_out(prec, dir);
+    }
+}
+
 /// The working affine form (see the module docs).
 #[derive(Debug)]
 pub(crate) struct Form {
-    scale: Rational,
+    /// A unit (`±2^a·5^b`) or 1.
+    scale: Num,
     terms: BTreeMap<usize, WTerm>,
     rem: Interval,
     /// `Σ iv + rem`, before `scale`; ends kept apart because the running
     /// sum passes through values that are not ordered intervals.
-    sum_lo: Rational,
-    sum_hi: Rational,
+    sum_lo: Num,
+    sum_hi: Num,
     /// `Σ m`, `Σ v` of the terms, before `scale`.
     mean: f64,
     var: f64,
@@ -159,11 +257,11 @@ pub(crate) struct Form {
 impl Form {
     pub(crate) fn zero() -> Form {
         Form {
-            scale: Rational::from(1),
+            scale: Num::ONE,
             terms: BTreeMap::new(),
             rem: Interval::zero(),
-            sum_lo: Rational::new(),
-            sum_hi: Rational::new(),
+            sum_lo: Num::ZERO,
+            sum_hi: Num::ZERO,
             mean: 0.0,
             var: 0.0,
             rem_mean: 0.0,
@@ -175,14 +273,7 @@ impl Form {
     /// The form `1·ε_src`.
     pub(crate) fn source(src: usize, sources: &[Source], owners: &mut Owners) -> Form {
         let mut f = Form::zero();
-        f.insert(
-            src,
-            Interval::point(Rational::from(1)),
-            1.0,
-            0.0,
-            sources,
-            owners,
-        );
+        f.insert(src, Interval::point(Num::ONE), 1.0, 0.0, sources, owners);
         owners.count[src] += 1;
         f
     }
@@ -195,6 +286,26 @@ impl Form {
         self.terms.is_empty() && self.rem.is_zero()
     }
 
+    fn new_term(
+        coef: Interval,
+        gm: f64,
+        gv: f64,
+        (eps, mean, var): (&Interval, f64, f64),
+        prec: u32,
+    ) -> WTerm {
+        let mut iv = coef.mul(eps);
+        iv.round_costly(prec);
+        let (m, v) = moments_of(gm, gv, mean, var);
+        WTerm {
+            coef,
+            iv,
+            gm,
+            gv,
+            m,
+            v,
+        }
+    }
+
     fn insert(
         &mut self,
         src: usize,
@@ -204,37 +315,49 @@ impl Form {
         sources: &[Source],
         owners: &Owners,
     ) {
-        let t = WTerm::new(coef, gm, gv, owners.source(src, sources));
-        self.add_term_sums(&t, true);
+        let t = Form::new_term(coef, gm, gv, owners.source(src, sources), owners.prec);
+        self.add_term_sums(&t, true, owners.prec);
         self.terms.insert(src, t);
     }
 
-    fn add_term_sums(&mut self, t: &WTerm, add: bool) {
+    fn add_sums(&mut self, lo: &Num, hi: &Num, add: bool, prec: u32) {
         if add {
-            self.sum_lo += &t.iv.lo;
-            self.sum_hi += &t.iv.hi;
+            self.sum_lo += lo;
+            self.sum_hi += hi;
+        } else {
+            self.sum_lo -= lo;
+            self.sum_hi -= hi;
+        }
+        tame(&mut self.sum_lo, prec, Direction::Down);
+        tame(&mut self.sum_hi, prec, Direction::Up);
+    }
+
+    fn add_term_sums(&mut self, t: &WTerm, add: bool, prec: u32) {
+        self.add_sums(&t.iv.lo, &t.iv.hi, add, prec);
+        if add {
             self.mean += t.m;
             self.var += t.v;
         } else {
-            self.sum_lo -= &t.iv.lo;
-            self.sum_hi -= &t.iv.hi;
             self.mean -= t.m;
             self.var -= t.v;
         }
     }
 
-    /// The exact interval of the form.
-    pub(crate) fn interval(&self) -> Interval {
-        if self.scale == 1 {
-            return Interval::new(self.sum_lo.clone(), self.sum_hi.clone());
-        }
-        let a = Rational::from(&self.sum_lo * &self.scale);
-        let b = Rational::from(&self.sum_hi * &self.scale);
-        if self.scale.is_negative() {
-            Interval::new(b, a)
+    /// An interval holding every value of the form.
+    pub(crate) fn interval(&self, prec: u32) -> Interval {
+        let mut r = if self.scale == Num::ONE {
+            Interval::new(self.sum_lo.clone(), self.sum_hi.clone())
         } else {
-            Interval::new(a, b)
-        }
+            let a = &self.sum_lo * &self.scale;
+            let b = &self.sum_hi * &self.scale;
+            if self.scale.is_negative() {
+                Interval::new(b, a)
+            } else {
+                Interval::new(a, b)
+            }
+        };
+        r.round_costly(prec);
+        r
     }
 
     /// Predicted mean and variance of the form.
@@ -246,40 +369,56 @@ impl Form {
         )
     }
 
-    /// Add `iv` (an interval holding whatever it stands for, already in this
-    /// form's scaled units) with moments `(m, v)` to the remainder.
-    pub(crate) fn add_rem(&mut self, iv: &Interval, m: f64, v: f64) {
-        let inv = Rational::from(self.scale.recip_ref());
-        let iv = if inv == 1 { iv.clone() } else { iv.scale(&inv) };
-        let kf = inv.to_f64();
-        self.sum_lo += &iv.lo;
-        self.sum_hi += &iv.hi;
+    /// Add `iv` (an interval holding whatever it stands for, in this form's
+    /// scaled units) with moments `(m, v)` to the remainder.
+    pub(crate) fn add_rem(&mut self, iv: &Interval, m: f64, v: f64, prec: u32) {
+        let mut iv = if self.scale == Num::ONE {
+            iv.clone()
+        } else {
+            let inv = Num::ONE.div_unit(&self.scale).expect("the scale is a unit");
+            iv.scale(&inv)
+        };
+        iv.round_costly(prec);
+        let kf = 1.0 / self.scale.to_f64();
+        self.add_sums(&iv.lo, &iv.hi, true, prec);
         self.rem = self.rem.add(&iv);
+        self.rem.round_costly(prec);
         self.rem_mean += m * kf;
         self.rem_var += v * kf * kf;
     }
 
     /// Push the lazy scale into the terms.
-    fn materialize(&mut self) {
-        if self.scale == 1 {
+    fn materialize(&mut self, prec: u32) {
+        if self.scale == Num::ONE {
             return;
         }
-        let k = std::mem::replace(&mut self.scale, Rational::from(1));
+        let k = std::mem::replace(&mut self.scale, Num::ONE);
+        self.multiply_terms(&k, prec);
+    }
+
+    /// Multiply every term, the remainder and the sums by `k` (no lazy
+    /// scale pending).
+    fn multiply_terms(&mut self, k: &Num, prec: u32) {
         let kf = k.to_f64();
         for t in self.terms.values_mut() {
-            t.coef = t.coef.scale(&k);
-            t.iv = t.iv.scale(&k);
+            t.coef = t.coef.scale(k);
+            t.coef.round_costly(prec);
+            t.iv = t.iv.scale(k);
+            t.iv.round_costly(prec);
             t.gm *= kf;
             t.gv *= kf * kf;
             t.m *= kf;
             t.v *= kf * kf;
         }
-        self.rem = self.rem.scale(&k);
-        let (lo, hi) = (
-            Rational::from(&self.sum_lo * &k),
-            Rational::from(&self.sum_hi * &k),
-        );
-        (self.sum_lo, self.sum_hi) = if k.is_negative() { (hi, lo) } else { (lo, hi) };
+        self.rem = self.rem.scale(k);
+        self.rem.round_costly(prec);
+        let (mut lo, mut hi) = (&self.sum_lo * k, &self.sum_hi * k);
+        if k.is_negative() {
+            std::mem::swap(&mut lo, &mut hi);
+        }
+        tame(&mut lo, prec, Direction::Down);
+        tame(&mut hi, prec, Direction::Up);
+        (self.sum_lo, self.sum_hi) = (lo, hi);
         self.mean *= kf;
         self.var *= kf * kf;
         self.rem_mean *= kf;
@@ -287,17 +426,23 @@ impl Form {
     }
 
     /// Multiply by an exact number.
-    pub(crate) fn scale_exact(&mut self, k: &Rational, owners: &mut Owners) {
+    pub(crate) fn scale_exact(&mut self, k: &Num, owners: &mut Owners) {
         if k.is_zero() {
             self.release(owners);
             *self = Form::zero();
             return;
         }
-        self.scale *= k;
-        if self.scale.numer().significant_bits() > SCALE_BITS
-            || self.scale.denom().significant_bits() > SCALE_BITS
-        {
-            self.materialize();
+        if *k == Num::ONE {
+            return;
+        }
+        if k.is_unit() {
+            self.scale *= k;
+            if self.scale.cost_bits() > SCALE_BITS {
+                self.materialize(owners.prec);
+            }
+        } else {
+            self.materialize(owners.prec);
+            self.multiply_terms(k, owners.prec);
         }
     }
 
@@ -312,7 +457,7 @@ impl Form {
         sources: &[Source],
         owners: &mut Owners,
     ) {
-        if v.lo == v.hi {
+        if v.is_point() {
             self.scale_exact(&v.lo, owners);
             return;
         }
@@ -320,14 +465,16 @@ impl Form {
             self.fold_where(owners, |_| true);
         }
         self.cap(max_terms, owners);
-        self.materialize();
+        self.materialize(owners.prec);
+        let prec = owners.prec;
         let e2 = vv + vm * vm;
         let mom = |gm: f64, gv: f64| -> (f64, f64) {
             let m = vm * gm;
             (m, (e2 * (gv + gm * gm) - m * m).max(0.0))
         };
         let old = std::mem::take(&mut self.terms);
-        let rem = self.rem.mul(v);
+        let mut rem = self.rem.mul(v);
+        rem.round_costly(prec);
         let rem_mean = vm * self.rem_mean;
         let rem_var =
             (e2 * (self.rem_var + self.rem_mean * self.rem_mean) - rem_mean * rem_mean).max(0.0);
@@ -341,7 +488,9 @@ impl Form {
         self.rem_var = rem_var;
         for (s, t) in old {
             let (gm, gv) = mom(t.gm, t.gv);
-            self.insert(s, t.coef.mul(v), gm, gv, sources, owners);
+            let mut c = t.coef.mul(v);
+            c.round_costly(prec);
+            self.insert(s, c, gm, gv, sources, owners);
         }
     }
 
@@ -355,17 +504,22 @@ impl Form {
         sources: &[Source],
         owners: &mut Owners,
     ) {
+        let prec = owners.prec;
+        // other's terms in self's units: a ratio of units is a unit.
         let mut factor = if other.scale == self.scale {
-            Rational::from(1)
+            Num::ONE
         } else {
-            Rational::from(&other.scale / &self.scale)
+            other
+                .scale
+                .div_unit(&self.scale)
+                .expect("scales are units")
         };
         if negate {
             factor = -factor;
         }
+        let unit = factor == Num::ONE;
         let ff = factor.to_f64();
         for (&s, t) in &other.terms {
-            let unit = factor == 1;
             let coef = if unit {
                 t.coef.clone()
             } else {
@@ -373,15 +527,10 @@ impl Form {
             };
             let (gm, gv) = (t.gm * ff, t.gv * ff * ff);
             if let Some(old) = self.terms.remove(&s) {
-                self.add_term_sums(&old, false);
-                self.insert(
-                    s,
-                    old.coef.add(&coef),
-                    old.gm + gm,
-                    old.gv + gv,
-                    sources,
-                    owners,
-                );
+                self.add_term_sums(&old, false, prec);
+                let mut c = old.coef.add(&coef);
+                c.round_costly(prec);
+                self.insert(s, c, old.gm + gm, old.gv + gv, sources, owners);
                 if consumed {
                     *owners.count_mut(s) -= 1;
                 }
@@ -399,7 +548,7 @@ impl Form {
                     m: t.m * ff,
                     v: t.v * ff * ff,
                 };
-                self.add_term_sums(&nt, true);
+                self.add_term_sums(&nt, true, prec);
                 self.terms.insert(s, nt);
                 if !consumed {
                     *owners.count_mut(s) += 1;
@@ -408,9 +557,9 @@ impl Form {
         }
         if !other.rem.is_zero() {
             let r = other.rem.scale(&factor);
-            self.sum_lo += &r.lo;
-            self.sum_hi += &r.hi;
+            self.add_sums(&r.lo, &r.hi, true, prec);
             self.rem = self.rem.add(&r);
+            self.rem.round_costly(prec);
         }
         self.rem_mean += other.rem_mean * ff;
         self.rem_var += other.rem_var * ff * ff;
@@ -423,9 +572,8 @@ impl Form {
         if self.terms.len() < self.next_scan {
             return;
         }
-        let total =
-            Rational::from(self.sum_lo.abs_ref()).max(Rational::from(self.sum_hi.abs_ref()));
-        let limit = total >> TINY_BITS;
+        let total = self.sum_lo.abs().max(self.sum_hi.abs());
+        let limit = total.mul_pow2(-TINY_BITS);
         self.fold_where(owners, |t| t.iv.max_abs() < limit);
         self.next_scan = (2 * self.terms.len()).max(64);
     }
@@ -443,21 +591,24 @@ impl Form {
     }
 
     /// Replace the terms `ids` by one internal source `η` with coefficient
-    /// 1, ranging over the exact sum of their intervals: the running sums
-    /// and moments do not change, and `η` is tracked like any source, so a
-    /// copy of this form that meets another one later still cancels it.
-    /// Exact for terms no other form holds (the sum of independent terms
-    /// ranges over exactly the sum of their intervals); for the others it
-    /// forgets their correlation with those forms (sound, possibly looser).
+    /// 1, ranging over the sum of their intervals: the running sums and
+    /// moments do not change, and `η` is tracked like any source, so a copy
+    /// of this form that meets another one later still cancels it. Exact
+    /// for terms no other form holds (the sum of independent terms ranges
+    /// over exactly the sum of their intervals); for the others it forgets
+    /// their correlation with those forms (sound, possibly looser).
     fn fold(&mut self, ids: Vec<usize>, owners: &mut Owners) {
         if ids.len() < 2 {
             return;
         }
-        let (mut lo, mut hi, mut m, mut v) = (Rational::new(), Rational::new(), 0.0, 0.0);
+        let prec = owners.prec;
+        let (mut lo, mut hi, mut m, mut v) = (Num::ZERO, Num::ZERO, 0.0, 0.0);
         for id in ids {
             let t = self.terms.remove(&id).expect("term present");
             lo += &t.iv.lo;
             hi += &t.iv.hi;
+            tame(&mut lo, prec, Direction::Down);
+            tame(&mut hi, prec, Direction::Up);
             m += t.m;
             v += t.v;
             *owners.count_mut(id) -= 1;
@@ -468,7 +619,7 @@ impl Form {
         self.terms.insert(
             id,
             WTerm {
-                coef: Interval::point(Rational::from(1)),
+                coef: Interval::point(Num::ONE),
                 iv,
                 gm: 1.0,
                 gv: 0.0,
@@ -485,7 +636,7 @@ impl Form {
         if self.terms.len() <= max {
             return;
         }
-        let mut keyed: Vec<(Rational, usize)> = self
+        let mut keyed: Vec<(Num, usize)> = self
             .terms
             .iter()
             .map(|(s, t)| (t.iv.max_abs(), *s))
@@ -524,7 +675,7 @@ impl Form {
 
     /// The public form (coefficients with the scale applied; internal
     /// sources go to the remainder).
-    pub(crate) fn to_affine(&self) -> Affine {
+    pub(crate) fn to_affine(&self, prec: u32) -> Affine {
         let k = &self.scale;
         let kf = k.to_f64();
         let mut rem = self.rem.clone();
@@ -540,6 +691,7 @@ impl Form {
                 });
             } else {
                 rem = rem.add(&t.iv);
+                rem.round_costly(prec);
                 rem_mean += t.m;
                 rem_var += t.v;
             }

@@ -27,12 +27,12 @@
 //!   the loop analysis iterates that pass on the impulse input;
 //! - simulation runs sequences instead of single vectors, carrying state.
 
+pub mod parse;
+
 use std::fmt;
 
 use qbound::{Format, Overflow, Rounding};
-use rug::Rational;
-
-use crate::exact::{ceil_to_grid, floor_to_grid, format_range, round_to_grid};
+use crate::arith::{Num, ceil_to_grid, floor_to_grid, format_range, round_to_grid};
 
 /// The index of a node in its [`Datapath`].
 #[derive(
@@ -76,9 +76,9 @@ pub enum Op {
     /// An input with a real range `[lo, hi]` (exact decimals).
     Input {
         /// Smallest value.
-        lo: Rational,
+        lo: Num,
         /// Largest value.
-        hi: Rational,
+        hi: Num,
         /// Exact data or a quantized real signal.
         kind: InputKind,
     },
@@ -86,7 +86,7 @@ pub enum Op {
     /// with `rounding` (its quantization error is a known number).
     Const {
         /// The exact (design) value.
-        value: Rational,
+        value: Num,
         /// How it was rounded into the format.
         rounding: Rounding,
     },
@@ -157,18 +157,18 @@ pub struct Node {
 #[derive(Clone, Debug, PartialEq)]
 pub enum Budget {
     /// At most this absolute error.
-    Absolute(Rational),
+    Absolute(Num),
     /// At most this many ulps of the output's format.
-    Ulps(Rational),
+    Ulps(Num),
 }
 
 impl Budget {
     /// The budget as an absolute error for an output of format `f`.
     #[must_use]
-    pub fn absolute(&self, f: Format) -> Rational {
+    pub fn absolute(&self, f: Format) -> Num {
         match self {
             Budget::Absolute(x) => x.clone(),
-            Budget::Ulps(n) => n * crate::exact::ulp(f),
+            Budget::Ulps(n) => n * crate::arith::ulp(f),
         }
     }
 }
@@ -289,10 +289,10 @@ pub enum ModelError {
 /// ```
 /// use qbound::{Format, Overflow, Rounding};
 /// use qbound_report::{Builder, InputKind};
-/// use rug::Rational;
+/// use qbound_report::arith::Num;
 /// let q15 = Format::signed(0, 15)?;
 /// let mut b = Builder::new();
-/// let x = b.input("x", q15, Rational::from(-1), Rational::from((32767, 32768)), InputKind::Exact)?;
+/// let x = b.input("x", q15, Num::from(-1), Num::dyadic(32767, -15), InputKind::Exact)?;
 /// let c = b.constant("c", qbound_report::parse_decimal("0.3").unwrap(), q15, Rounding::NearestTiesEven)?;
 /// let p = b.mul(x, c)?;                       // Q1.30, exact
 /// let y = b.rescale(p, q15, Rounding::NearestTiesEven, Overflow::Saturate)?;
@@ -396,35 +396,38 @@ impl Builder {
         &mut self,
         name: &str,
         format: Format,
-        lo: Rational,
-        hi: Rational,
+        lo: Num,
+        hi: Num,
         kind: InputKind,
     ) -> Result<NodeId, ModelError> {
         if lo > hi {
             return Err(ModelError::EmptyRange {
                 name: name.to_owned(),
-                lo: lo.to_string(),
-                hi: hi.to_string(),
+                lo: crate::arith::decimal_text(&lo),
+                hi: crate::arith::decimal_text(&hi),
             });
         }
         let fr = format_range(format);
+        let dt = crate::arith::decimal_text;
+        let (lo_t, hi_t) = (dt(&lo), dt(&hi));
         let detail = match kind {
             InputKind::Exact => {
                 if lo < fr.lo || hi > fr.hi {
                     Some(format!(
-                        "the range [{lo}, {hi}] passes the range of {format} [{}, {}]",
-                        fr.lo, fr.hi
+                        "the range [{lo_t}, {hi_t}] passes the range of {format} [{}, {}]",
+                        dt(&fr.lo),
+                        dt(&fr.hi)
                     ))
                 } else if ceil_to_grid(&lo, format.frac_bits())
                     > floor_to_grid(&hi, format.frac_bits())
                 {
-                    Some(format!("no value of {format} lies in [{lo}, {hi}]"))
+                    Some(format!("no value of {format} lies in [{lo_t}, {hi_t}]"))
                 } else {
                     None
                 }
             }
             InputKind::Quantized(_) => (hi < fr.lo || lo > fr.hi)
-                .then(|| format!("the range [{lo}, {hi}] lies outside the range of {format}")),
+                .then(|| format!("the range [{lo_t}, {hi_t}] lies outside the range of {format}")),
         };
         if let Some(detail) = detail {
             return Err(ModelError::RangeOutsideFormat {
@@ -445,7 +448,7 @@ impl Builder {
     pub fn constant(
         &mut self,
         name: &str,
-        value: Rational,
+        value: Num,
         format: Format,
         rounding: Rounding,
     ) -> Result<NodeId, ModelError> {
@@ -453,7 +456,7 @@ impl Builder {
         if !format_range(format).contains(&q) {
             return Err(ModelError::ConstantOutOfRange {
                 name: name.to_owned(),
-                value: value.to_string(),
+                value: crate::arith::decimal_text(&value),
                 format,
             });
         }

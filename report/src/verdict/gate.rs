@@ -21,8 +21,8 @@
 //! # Ok::<(), qbound_report::ParseError>(())
 //! ```
 
-use crate::render::num;
-use crate::result::{NodeReport, Report};
+use super::report::{NodeReport, Report};
+use crate::arith::num;
 
 /// Where saturation is allowed.
 #[derive(Clone, Debug, PartialEq, Eq)]

@@ -14,11 +14,9 @@
 use std::io::{self, Write};
 
 use qbound::Format;
-use rug::Rational;
 use serde::Serialize;
 
-use crate::analysis::decimal_text;
-use crate::exact::{format_range, ulp};
+use crate::arith::{decimal_text, format_range, ulp};
 
 /// 20·log10(2): decibels per bit of a ratio of amplitudes.
 const DB_PER_BIT: f64 = 6.020_599_913_279_624;
@@ -66,14 +64,10 @@ pub struct Description {
 pub fn describe(f: Format) -> Description {
     let r = format_range(f);
     let q = ulp(f);
-    let big = if Rational::from(r.lo.abs_ref()) > r.hi {
-        Rational::from(r.lo.abs_ref())
-    } else {
-        r.hi.clone()
-    };
+    let big = r.lo.abs().max(r.hi.clone());
     // Both are exact powers of two times integers: log2 of the ratio in
     // f64 is accurate to far better than the 0.01 dB shown.
-    let ratio = Rational::from(&big / &q);
+    let ratio = big.mul_pow2(i64::from(f.frac_bits()));
     let ratio_bits = ratio.to_f64().log2();
     let w = f.width();
     Description {

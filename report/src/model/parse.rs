@@ -6,9 +6,7 @@ use std::collections::HashMap;
 use std::fmt;
 
 use qbound::{Format, Overflow, Rounding};
-use rug::Rational;
-
-use crate::exact::parse_decimal;
+use crate::arith::{Num, parse_decimal};
 use crate::model::{Budget, Builder, Datapath, InputKind, ModelError, NodeId, Span};
 
 /// The longest input accepted (bytes); longer text is refused with an
@@ -78,6 +76,8 @@ pub fn parse(text: &str) -> Result<Datapath, ParseError> {
         b: Builder::new(),
         names: HashMap::new(),
     };
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    let mut statements = 0usize;
     for (i, line) in text.lines().enumerate() {
         let mut c = Cursor {
             chars: line.chars().collect(),
@@ -89,6 +89,16 @@ pub fn parse(text: &str) -> Result<Datapath, ParseError> {
             continue;
         }
         st.statement(&mut c)?;
+        statements += 1;
+    }
+    if statements == 0 {
+        return Err(ParseError {
+            span: Span { line: 1, column: 1 },
+            expected: "a datapath: the text holds no statement (only blanks and comments); \
+                       declare inputs, constants, lets and at least one output (see report/FORMAT.md)"
+                .to_owned(),
+            found: String::new(),
+        });
     }
     Ok(st.b.build())
 }
@@ -225,7 +235,7 @@ impl Cursor {
         }
     }
 
-    fn decimal(&mut self, what: &str) -> Result<(Span, Rational), ParseError> {
+    fn decimal(&mut self, what: &str) -> Result<(Span, Num), ParseError> {
         self.skip_ws();
         let start = self.pos;
         let mut prev = ' ';

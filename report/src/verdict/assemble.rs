@@ -3,13 +3,14 @@
 
 use qbound::Overflow;
 
-use crate::analysis::{Analysis, NodeAnalysis, decimal_text, term_interval};
-use crate::exact::{Interval, ulp};
-use crate::model::{Budget, Datapath, NodeId, Op};
-use crate::result::{
-    BudgetReport, Contribution, Diagnostic, ErrorBound, ErrorStats, Exact, Measured, NodeReport,
-    OutputReport, OverflowReport, RangeReport, Report, Severity, SimulationSummary, SourceReport,
+use super::report::{
+    BudgetReport, Contribution, Diagnostic, ErrorBound, ErrorStats, Exact, NodeReport,
+    OutputReport, OverflowReport, RangeReport, Report, Severity, SourceReport,
 };
+use crate::analysis::{Analysis, NodeAnalysis, term_interval};
+use crate::arith::{Interval, decimal_text, ulp};
+use crate::model::{Budget, Datapath, NodeId, Op};
+use crate::simulate::Simulation;
 
 fn range(r: &Interval) -> RangeReport {
     RangeReport {
@@ -23,7 +24,7 @@ fn bound(e: &Interval, f: qbound::Format) -> ErrorBound {
     ErrorBound {
         lo: Exact::new(&e.lo),
         hi: Exact::new(&e.hi),
-        ulps: Exact::new(&(&m / ulp(f))),
+        ulps: Exact::new(&m.mul_pow2(i64::from(f.frac_bits()))),
         max_abs: Exact::new(&m),
     }
 }
@@ -96,14 +97,10 @@ fn overflow_report(n: &NodeAnalysis) -> OverflowReport {
     }
 }
 
-/// Build the report. `measured[i]` holds the simulation's measurements of
-/// node `i`, if it ran.
-pub(crate) fn assemble(
-    path: &Datapath,
-    a: &Analysis,
-    measured: Option<&[Measured]>,
-    sim: Option<SimulationSummary>,
-) -> Report {
+/// Build the report of an analysis and, if it ran, a simulation.
+#[must_use]
+pub fn assemble(path: &Datapath, a: &Analysis, sim: Option<&Simulation>) -> Report {
+    let measured = sim.map(|s| s.measured.as_slice());
     let mut diagnostics = Vec::new();
     let nodes: Vec<NodeReport> = a
         .nodes
@@ -159,7 +156,8 @@ pub(crate) fn assemble(
     let outputs = path
         .outputs()
         .iter()
-        .map(|o| {
+        .enumerate()
+        .map(|(oi, o)| {
             let n = &a.nodes[o.node.0];
             let f = path.node(o.node).format;
             let m = measured.map(|m| m[o.node.0].clone());
@@ -173,7 +171,7 @@ pub(crate) fn assemble(
                     Budget::Ulps(x) => format!("{} ulp", decimal_text(x)),
                 };
                 let met_by_bound = n.error.max_abs() <= abs;
-                let met_by_simulation = m.as_ref().and_then(|m| m.max_abs.rational()).map(|x| x <= abs);
+                let met_by_simulation = m.as_ref().and_then(|m| m.max_abs.num()).map(|x| x <= abs);
                 if !met_by_bound {
                     let sev = if met_by_simulation == Some(false) { Severity::Error } else { Severity::Warning };
                     diagnostics.push(Diagnostic {
@@ -210,6 +208,7 @@ pub(crate) fn assemble(
                 budget,
                 contributions: contributions(a, n),
                 measured: m,
+                histogram: sim.map(|s| s.histograms[oi].clone()),
             }
         })
         .collect();
@@ -218,7 +217,7 @@ pub(crate) fn assemble(
         nodes,
         sources,
         outputs,
-        simulation: sim,
+        simulation: sim.map(|s| s.summary.clone()),
         diagnostics,
     }
 }
@@ -281,6 +280,6 @@ impl Analysis {
     /// ```
     #[must_use]
     pub fn report(&self, path: &Datapath) -> Report {
-        assemble(path, self, None, None)
+        assemble(path, self, None)
     }
 }

@@ -1,0 +1,4 @@
+//! Choosing formats. Today: facts about one format for questions at the
+//! desk (`qbound describe`).
+
+pub mod describe;
