@@ -9,10 +9,14 @@
 //! representation that keeps the cost of every node independent of how
 //! many sources reach it:
 //!
-//! - A lazy unit factor `scale` (`±2^a·5^b`: shifts, negations, decimal
-//!   powers of ten) multiplies everything in the form, so a shift or a
-//!   negation is one multiplication, not one per term. Any other constant
-//!   factor is pushed into the terms.
+//! - A lazy constant factor `scale` multiplies everything in the form, so
+//!   a shift, a negation or a product with a constant is one
+//!   multiplication, not one per term. It is pushed into the terms when it
+//!   costs more than `SCALE_BITS` bits. A merge whose factor between the
+//!   two scales is not exact (a ratio of two decimal constants) either
+//!   pushes a small form's scale into its terms, or multiplies the smaller
+//!   form's terms by an outward-rounded enclosure of the factor, so an
+//!   unrolled recursion `y = c·y + x` costs the same at every step.
 //! - The interval of the form (`Σ coef·ε + rem`, before `scale`) is kept as
 //!   a running sum: a merge adds and subtracts the end points of the terms
 //!   it touches (interval sums are sums of end points). Each update rounds
@@ -142,7 +146,10 @@ const TINY_BITS: i64 = 24;
 const MATERIALIZE_KEEP: usize = 32;
 /// The lazy scale is pushed into the terms once it costs more than this
 /// many bits (keeps the f64 moments finite).
-const SCALE_BITS: u64 = 60;
+pub(crate) const SCALE_BITS: u64 = 60;
+/// A form with at most this many terms pushes its scale into the terms
+/// rather than merge with an inexact factor.
+pub(crate) const SMALL_FORM: usize = 16;
 
 #[derive(Clone, Debug)]
 struct WTerm {
@@ -227,6 +234,77 @@ impl Owners {
     }
 }
 
+/// The factor that brings one form's terms into another's units.
+pub(crate) enum Factor {
+    /// The same scale.
+    One,
+    /// An exact ratio.
+    Exact(Num),
+    /// An outward-rounded enclosure of an inexact ratio.
+    Enclosed(Interval),
+}
+
+impl Factor {
+    /// `from / to`.
+    pub(crate) fn between(from: &Num, to: &Num, prec: u32) -> Factor {
+        if from == to {
+            return Factor::One;
+        }
+        if let Some(k) = from.div_unit(to) {
+            return if k == Num::ONE {
+                Factor::One
+            } else {
+                Factor::Exact(k)
+            };
+        }
+        if prec == u32::MAX {
+            // Exact mode: the caller takes the scale into the terms first.
+            return Factor::Enclosed(Interval::point(Num::ONE));
+        }
+        Factor::Enclosed(Interval::point(from.clone()).div_round(to, prec))
+    }
+
+    pub(crate) fn neg(self) -> Factor {
+        match self {
+            Factor::One => Factor::Exact(Num::from(-1)),
+            Factor::Exact(k) => {
+                let n = -k;
+                if n == Num::ONE {
+                    Factor::One
+                } else {
+                    Factor::Exact(n)
+                }
+            }
+            Factor::Enclosed(iv) => Factor::Enclosed(iv.neg()),
+        }
+    }
+
+    pub(crate) fn to_f64(&self) -> f64 {
+        match self {
+            Factor::One => 1.0,
+            Factor::Exact(k) => k.to_f64(),
+            Factor::Enclosed(iv) => iv.lo.to_f64(),
+        }
+    }
+
+    /// `x` times the factor, outward.
+    pub(crate) fn apply(&self, x: &Interval, prec: u32) -> Interval {
+        match self {
+            Factor::One => x.clone(),
+            Factor::Exact(k) => x.scale_round(k, prec),
+            Factor::Enclosed(kv) => x.mul_round(kv, prec),
+        }
+    }
+}
+
+/// An outward-rounded dyadic enclosure of `k` when `k` is not dyadic and
+/// costs more than a short decimal (so products with it stay on the
+/// dyadic fast path); `None` when `k` itself is cheap enough to use.
+pub(crate) fn enclosure(k: &Num, prec: u32) -> Option<Interval> {
+    (prec != u32::MAX && !k.is_dyadic() && k.cost_bits() > 24)
+        .then(|| Interval::point(k.clone()).round_out(prec))
+}
+
 /// Round `x` toward `dir` if it costs more than `prec` bits.
 pub(crate) fn tame(x: &mut Num, prec: u32, dir: Direction) {
     if prec != u32::MAX && x.cost_bits() > u64::from(prec) {
@@ -237,7 +315,7 @@ pub(crate) fn tame(x: &mut Num, prec: u32, dir: Direction) {
 /// The working affine form (see the module docs).
 #[derive(Debug)]
 pub(crate) struct Form {
-    /// A unit (`±2^a·5^b`) or 1.
+    /// A nonzero constant multiplying everything (1 when none is pending).
     scale: Num,
     terms: BTreeMap<usize, WTerm>,
     rem: Interval,
@@ -293,7 +371,7 @@ impl Form {
         (eps, mean, var): (&Interval, f64, f64),
         prec: u32,
     ) -> WTerm {
-        let mut iv = coef.mul(eps);
+        let mut iv = coef.mul_round(eps, prec);
         iv.round_costly(prec);
         let (m, v) = moments_of(gm, gv, mean, var);
         WTerm {
@@ -345,16 +423,11 @@ impl Form {
 
     /// An interval holding every value of the form.
     pub(crate) fn interval(&self, prec: u32) -> Interval {
+        let sums = Interval::new(self.sum_lo.clone(), self.sum_hi.clone());
         let mut r = if self.scale == Num::ONE {
-            Interval::new(self.sum_lo.clone(), self.sum_hi.clone())
+            sums
         } else {
-            let a = &self.sum_lo * &self.scale;
-            let b = &self.sum_hi * &self.scale;
-            if self.scale.is_negative() {
-                Interval::new(b, a)
-            } else {
-                Interval::new(a, b)
-            }
+            sums.scale_round(&self.scale, prec)
         };
         r.round_costly(prec);
         r
@@ -375,8 +448,7 @@ impl Form {
         let mut iv = if self.scale == Num::ONE {
             iv.clone()
         } else {
-            let inv = Num::ONE.div_unit(&self.scale).expect("the scale is a unit");
-            iv.scale(&inv)
+            iv.div_round(&self.scale, prec)
         };
         iv.round_costly(prec);
         let kf = 1.0 / self.scale.to_f64();
@@ -397,28 +469,28 @@ impl Form {
     }
 
     /// Multiply every term, the remainder and the sums by `k` (no lazy
-    /// scale pending).
+    /// scale pending). A costly non-dyadic `k` is replaced by its
+    /// outward-rounded enclosure, so every product is dyadic.
     fn multiply_terms(&mut self, k: &Num, prec: u32) {
         let kf = k.to_f64();
+        let kiv = enclosure(k, prec);
+        let times = |x: &Interval| match &kiv {
+            None => x.scale_round(k, prec),
+            Some(kv) => x.mul_round(kv, prec),
+        };
         for t in self.terms.values_mut() {
-            t.coef = t.coef.scale(k);
-            t.coef.round_costly(prec);
-            t.iv = t.iv.scale(k);
-            t.iv.round_costly(prec);
+            t.coef = times(&t.coef);
+            t.iv = times(&t.iv);
             t.gm *= kf;
             t.gv *= kf * kf;
             t.m *= kf;
             t.v *= kf * kf;
         }
-        self.rem = self.rem.scale(k);
-        self.rem.round_costly(prec);
-        let (mut lo, mut hi) = (&self.sum_lo * k, &self.sum_hi * k);
-        if k.is_negative() {
-            std::mem::swap(&mut lo, &mut hi);
-        }
-        tame(&mut lo, prec, Direction::Down);
-        tame(&mut hi, prec, Direction::Up);
-        (self.sum_lo, self.sum_hi) = (lo, hi);
+        self.rem = times(&self.rem);
+        let sums = times(&Interval::new(self.sum_lo.clone(), self.sum_hi.clone()));
+        (self.sum_lo, self.sum_hi) = (sums.lo, sums.hi);
+        tame(&mut self.sum_lo, prec, Direction::Down);
+        tame(&mut self.sum_hi, prec, Direction::Up);
         self.mean *= kf;
         self.var *= kf * kf;
         self.rem_mean *= kf;
@@ -435,14 +507,9 @@ impl Form {
         if *k == Num::ONE {
             return;
         }
-        if k.is_unit() {
-            self.scale *= k;
-            if self.scale.cost_bits() > SCALE_BITS {
-                self.materialize(owners.prec);
-            }
-        } else {
+        self.scale *= k;
+        if self.scale.cost_bits() > SCALE_BITS {
             self.materialize(owners.prec);
-            self.multiply_terms(k, owners.prec);
         }
     }
 
@@ -473,7 +540,7 @@ impl Form {
             (m, (e2 * (gv + gm * gm) - m * m).max(0.0))
         };
         let old = std::mem::take(&mut self.terms);
-        let mut rem = self.rem.mul(v);
+        let mut rem = self.rem.mul_round(v, prec);
         rem.round_costly(prec);
         let rem_mean = vm * self.rem_mean;
         let rem_var =
@@ -488,7 +555,7 @@ impl Form {
         self.rem_var = rem_var;
         for (s, t) in old {
             let (gm, gv) = mom(t.gm, t.gv);
-            let mut c = t.coef.mul(v);
+            let mut c = t.coef.mul_round(v, prec);
             c.round_costly(prec);
             self.insert(s, c, gm, gv, sources, owners);
         }
@@ -505,26 +572,22 @@ impl Form {
         owners: &mut Owners,
     ) {
         let prec = owners.prec;
-        // other's terms in self's units: a ratio of units is a unit.
-        let mut factor = if other.scale == self.scale {
-            Num::ONE
-        } else {
-            other
-                .scale
-                .div_unit(&self.scale)
-                .expect("scales are units")
-        };
-        if negate {
-            factor = -factor;
+        // other's terms in self's units: exact when the ratio of the
+        // scales is, else a small self takes its scale into its terms, and
+        // a large one takes other's terms times an enclosure of the ratio.
+        let mut factor = Factor::between(&other.scale, &self.scale, prec);
+        if matches!(factor, Factor::Enclosed(_))
+            && (self.terms.len() <= SMALL_FORM || prec == u32::MAX)
+        {
+            self.materialize(prec);
+            factor = Factor::between(&other.scale, &self.scale, prec);
         }
-        let unit = factor == Num::ONE;
+        if negate {
+            factor = factor.neg();
+        }
         let ff = factor.to_f64();
         for (&s, t) in &other.terms {
-            let coef = if unit {
-                t.coef.clone()
-            } else {
-                t.coef.scale(&factor)
-            };
+            let coef = factor.apply(&t.coef, prec);
             let (gm, gv) = (t.gm * ff, t.gv * ff * ff);
             if let Some(old) = self.terms.remove(&s) {
                 self.add_term_sums(&old, false, prec);
@@ -535,14 +598,17 @@ impl Form {
                     *owners.count_mut(s) -= 1;
                 }
             } else {
-                // A point factor scales `coef × ε` exactly: no new product.
+                let iv = match &factor {
+                    // A point factor scales `coef × ε` exactly: no new product.
+                    Factor::One => t.iv.clone(),
+                    Factor::Exact(k) => t.iv.scale_round(k, prec),
+                    Factor::Enclosed(_) => {
+                        coef.mul_round(owners.source(s, sources).0, prec)
+                    }
+                };
                 let nt = WTerm {
                     coef,
-                    iv: if unit {
-                        t.iv.clone()
-                    } else {
-                        t.iv.scale(&factor)
-                    },
+                    iv,
                     gm,
                     gv,
                     m: t.m * ff,
@@ -556,7 +622,7 @@ impl Form {
             }
         }
         if !other.rem.is_zero() {
-            let r = other.rem.scale(&factor);
+            let r = factor.apply(&other.rem, prec);
             self.add_sums(&r.lo, &r.hi, true, prec);
             self.rem = self.rem.add(&r);
             self.rem.round_costly(prec);

@@ -133,7 +133,7 @@ impl Work {
         if vy.len() > vx.len() {
             let mut big = vy;
             if negate {
-                big.scale_exact(&Num::from(-1), self.prec);
+                big.scale_exact(&Num::from(-1), &self.syms, self.prec);
             }
             big.merge(&vx, false, &self.syms, self.prec);
             big
@@ -413,7 +413,7 @@ fn add_sub(a: &Analysis, w: &mut Work, x: NodeId, y: NodeId, sub: bool) -> Step 
 fn scale(a: &Analysis, w: &mut Work, x: NodeId, k: &Num) -> Step {
     let (mut form, mut vform) = w.operand(x);
     form.scale_exact(k, &mut w.owners);
-    vform.scale_exact(k, w.prec);
+    vform.scale_exact(k, &w.syms, w.prec);
     let nx = &a.nodes[x.0];
     Step::plain(nx.ideal.scale(k), nx.actual.scale(k), form, vform)
 }

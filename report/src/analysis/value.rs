@@ -14,12 +14,16 @@
 //! the form's range with plain interval arithmetic, so a node's range is
 //! never wider than interval arithmetic gives.
 //!
-//! The representation follows the error forms (`form.rs`): a lazy unit
+//! The representation follows the error forms (`form.rs`): a lazy constant
 //! factor, a running sum of `|a_k|`, forms moved into their last consumer
 //! and the smaller form inserted into the larger. A form copied for a
 //! second consumer or multiplied by another signal keeps at most
 //! `max_terms` terms; the smallest go into `r` (sound: the dependency on
-//! those inputs is forgotten, never the range).
+//! those inputs is forgotten, never the range), and so do negligible terms
+//! (below `2^-24` of the radius) when the form has doubled since its last
+//! scan. Where a coefficient must be rounded (an inexact ratio of scales,
+//! a costly product), the rounded coefficient stays and what rounding
+//! moved goes into `r`.
 //!
 //! Statistics (the signal's mean and variance for the noise model's SQNR)
 //! come with the form: each `ε_k` has the mean and variance of input `k`
@@ -29,7 +33,7 @@
 
 use std::collections::BTreeMap;
 
-use crate::analysis::form::tame;
+use crate::analysis::form::{Factor, SCALE_BITS, SMALL_FORM, enclosure, tame};
 use crate::arith::{Direction, Interval, Num};
 
 /// Statistics of one input symbol `ε` (in units of the input's radius).
@@ -39,15 +43,16 @@ pub(crate) struct Symbol {
     pub(crate) var: f64,
 }
 
-/// The lazy scale is pushed into the terms once it costs more than this
-/// many bits.
-const SCALE_BITS: u64 = 60;
+/// Terms below `2^-TINY_BITS` of the form's radius move into `r` when the
+/// form has doubled since its last scan (their dependency no longer
+/// matters; the range does not change).
+const TINY_BITS: i64 = 24;
 
 /// A value form (see the module docs).
 #[derive(Clone, Debug)]
 pub(crate) struct ValForm {
-    /// A unit (`±2^a·5^b`) or 1 multiplying the center and the terms; its
-    /// absolute value multiplies the radii.
+    /// A nonzero constant multiplying the center and the terms (1 when
+    /// none is pending); its absolute value multiplies the radii.
     scale: Num,
     center: Num,
     terms: BTreeMap<usize, Num>,
@@ -61,6 +66,8 @@ pub(crate) struct ValForm {
     /// Mean and variance of `r·δ`.
     rem_mean: f64,
     rem_var: f64,
+    /// Term count at which the next scan for negligible terms happens.
+    next_scan: usize,
 }
 
 fn term_moments(a: &Num, s: Symbol) -> (f64, f64) {
@@ -81,6 +88,7 @@ impl ValForm {
             var: 0.0,
             rem_mean: 0.0,
             rem_var: 0.0,
+            next_scan: 64,
         }
     }
 
@@ -112,9 +120,9 @@ impl ValForm {
     /// An interval holding every value of the form.
     pub(crate) fn interval(&self, prec: u32) -> Interval {
         let k = &self.scale;
-        let c = &self.center * k;
-        let r = (&self.rad + &self.rem) * k.abs();
-        let mut iv = Interval::new(&c - &r, &c + &r);
+        let c = Interval::point(self.center.clone()).scale_round(k, prec);
+        let r = (&self.rad + &self.rem).mul_round(&k.abs(), prec, Direction::Up);
+        let mut iv = Interval::new(&c.lo - &r, &c.hi + &r);
         iv.round_costly(prec);
         iv
     }
@@ -128,135 +136,157 @@ impl ValForm {
         )
     }
 
-    /// Round the center and the coefficients that cost more than `prec`
-    /// bits, moving what rounding changed into the radius.
-    fn tame_all(&mut self, prec: u32) {
-        if prec == u32::MAX {
-            return;
+    /// Replace the center by the low end of `p` (an enclosure of the new
+    /// center), moving the width into the radius.
+    fn set_center(&mut self, p: Interval, prec: u32) {
+        let mut c = p.lo.clone();
+        let mut w = p.width();
+        if prec != u32::MAX && c.cost_bits() > u64::from(prec) {
+            let r = c.round_out(prec, Direction::Down);
+            w += &c - &r;
+            c = r;
         }
-        let p = u64::from(prec);
-        if self.center.cost_bits() > p {
-            let c = self.center.round_out(prec, Direction::Down);
-            self.rem += (&self.center - &c).abs();
-            self.center = c;
+        self.center = c;
+        if !w.is_zero() {
+            self.rem += w;
+            tame(&mut self.rem, prec, Direction::Up);
         }
-        for a in self.terms.values_mut() {
-            if a.cost_bits() > p {
-                let b = a.round_out(prec, Direction::Down);
-                let d = (&*a - &b).abs();
-                self.rad -= a.abs();
-                self.rad += b.abs();
-                self.rem += d;
-                *a = b;
-            }
+    }
+
+    /// Add `p` (an enclosure of a coefficient of symbol `k`) to the term of
+    /// `k`, keeping the rounded low end and moving the rest into the
+    /// radius.
+    fn add_term(&mut self, k: usize, p: Interval, syms: &[Symbol], prec: u32) {
+        let old = self.terms.remove(&k);
+        let mut a = p.lo.clone();
+        let mut w = p.width();
+        if let Some(o) = &old {
+            let (m, v) = term_moments(o, syms[k]);
+            self.mean -= m;
+            self.var -= v;
+            self.rad -= o.abs();
+            a += o;
+        }
+        if prec != u32::MAX && a.cost_bits() > u64::from(prec) {
+            let r = a.round_out(prec, Direction::Down);
+            w += &a - &r;
+            a = r;
+        }
+        if !a.is_zero() {
+            let (m, v) = term_moments(&a, syms[k]);
+            self.mean += m;
+            self.var += v;
+            self.rad += a.abs();
+            self.terms.insert(k, a);
         }
         tame(&mut self.rad, prec, Direction::Up);
-        tame(&mut self.rem, prec, Direction::Up);
+        if !w.is_zero() {
+            self.rem += w;
+            tame(&mut self.rem, prec, Direction::Up);
+        }
     }
 
     /// Push the lazy scale into the center and the terms.
-    fn materialize(&mut self, prec: u32) {
+    fn materialize(&mut self, syms: &[Symbol], prec: u32) {
         if self.scale == Num::ONE {
             return;
         }
         let k = std::mem::replace(&mut self.scale, Num::ONE);
-        self.multiply(&k, prec);
+        self.multiply(&k, syms, prec);
     }
 
-    /// Multiply everything by `k` (no lazy scale pending).
-    fn multiply(&mut self, k: &Num, prec: u32) {
-        let ka = k.abs();
+    /// Multiply everything by `k` (no lazy scale pending). A costly
+    /// non-dyadic `k` is replaced by its outward-rounded enclosure.
+    fn multiply(&mut self, k: &Num, syms: &[Symbol], prec: u32) {
         let kf = k.to_f64();
-        self.center *= k;
-        for a in self.terms.values_mut() {
-            *a *= k;
-        }
-        self.rad *= &ka;
-        self.rem *= &ka;
-        self.mean *= kf;
-        self.var *= kf * kf;
+        let kiv = enclosure(k, prec);
+        let times = |x: &Num| match &kiv {
+            None => Interval::point(x.clone()).scale_round(k, prec),
+            Some(kv) => Interval::point(x.clone()).mul_round(kv, prec),
+        };
+        let kabs = kiv.as_ref().map_or_else(|| k.abs(), Interval::max_abs);
+        let old = std::mem::take(&mut self.terms);
+        let c = times(&self.center);
+        self.rad = Num::ZERO;
+        self.rem = self.rem.mul_round(&kabs, prec, Direction::Up);
+        self.mean = 0.0;
+        self.var = 0.0;
         self.rem_mean *= kf;
         self.rem_var *= kf * kf;
-        self.tame_all(prec);
+        self.set_center(c, prec);
+        for (s, a) in old {
+            self.add_term(s, times(&a), syms, prec);
+        }
     }
 
     /// Multiply by an exact number.
-    pub(crate) fn scale_exact(&mut self, k: &Num, prec: u32) {
+    pub(crate) fn scale_exact(&mut self, k: &Num, syms: &[Symbol], prec: u32) {
         if k.is_zero() {
             *self = ValForm::constant(Num::ZERO);
-        } else if k.is_unit() {
+        } else if *k != Num::ONE {
             self.scale *= k;
             if self.scale.cost_bits() > SCALE_BITS {
-                self.materialize(prec);
+                self.materialize(syms, prec);
             }
-        } else {
-            self.materialize(prec);
-            self.multiply(k, prec);
         }
     }
 
     /// `self + (negate ? -1 : 1)·other`.
     pub(crate) fn merge(&mut self, other: &ValForm, negate: bool, syms: &[Symbol], prec: u32) {
-        let mut factor = if other.scale == self.scale {
-            Num::ONE
-        } else {
-            other
-                .scale
-                .div_unit(&self.scale)
-                .expect("scales are units")
-        };
-        if negate {
-            factor = -factor;
+        let mut factor = Factor::between(&other.scale, &self.scale, prec);
+        if matches!(factor, Factor::Enclosed(_))
+            && (self.terms.len() <= SMALL_FORM || prec == u32::MAX)
+        {
+            self.materialize(syms, prec);
+            factor = Factor::between(&other.scale, &self.scale, prec);
         }
-        let unit = factor == Num::ONE;
+        if negate {
+            factor = factor.neg();
+        }
         let ff = factor.to_f64();
-        let fa = factor.abs();
-        self.center += &other.center * &factor;
+        let point = |x: &Num| factor.apply(&Interval::point(x.clone()), prec);
+        let c = point(&other.center);
+        let c = Interval::new(&c.lo + &self.center, &c.hi + &self.center);
+        self.set_center(c, prec);
         for (&k, b) in &other.terms {
-            let b = if unit { b.clone() } else { b * &factor };
-            match self.terms.remove(&k) {
-                Some(a) => {
-                    let (m, v) = term_moments(&a, syms[k]);
-                    self.mean -= m;
-                    self.var -= v;
-                    self.rad -= a.abs();
-                    let c = a + b;
-                    if !c.is_zero() {
-                        let (m, v) = term_moments(&c, syms[k]);
-                        self.mean += m;
-                        self.var += v;
-                        self.rad += c.abs();
-                        self.terms.insert(k, c);
-                    }
-                }
-                None => {
-                    let (m, v) = term_moments(&b, syms[k]);
-                    self.mean += m;
-                    self.var += v;
-                    self.rad += b.abs();
-                    self.terms.insert(k, b);
-                }
-            }
+            self.add_term(k, point(b), syms, prec);
         }
         if !other.rem.is_zero() {
-            self.rem += &other.rem * &fa;
+            let fa = match &factor {
+                Factor::One => Num::ONE,
+                Factor::Exact(f) => f.abs(),
+                Factor::Enclosed(iv) => iv.max_abs(),
+            };
+            self.rem += other.rem.mul_round(&fa, prec, Direction::Up);
+            tame(&mut self.rem, prec, Direction::Up);
         }
         self.rem_mean += other.rem_mean * ff;
         self.rem_var += other.rem_var * ff * ff;
         // Cancellation can leave the running moments slightly negative.
         self.var = self.var.max(0.0);
-        self.tame_all(prec);
+        self.scan(syms);
     }
 
-    /// Keep at most `max` terms: the smallest go into the radius.
-    pub(crate) fn cap(&mut self, max: usize, syms: &[Symbol]) {
-        if self.terms.len() <= max {
+    /// Move negligible terms into the radius when the form has doubled
+    /// since the last scan (amortised `O(1)` per term).
+    fn scan(&mut self, syms: &[Symbol]) {
+        if self.terms.len() < self.next_scan {
             return;
         }
-        let mut keyed: Vec<(Num, usize)> =
-            self.terms.iter().map(|(k, a)| (a.abs(), *k)).collect();
-        keyed.sort_by(|a, b| b.0.cmp(&a.0));
-        for (_, k) in keyed.drain(max.div_ceil(2)..) {
+        let limit = (&self.rad + &self.rem).mul_pow2(-TINY_BITS);
+        let gone: Vec<usize> = self
+            .terms
+            .iter()
+            .filter(|(_, a)| a.abs() < limit)
+            .map(|(k, _)| *k)
+            .collect();
+        self.fold(gone, syms);
+        self.next_scan = (2 * self.terms.len()).max(64);
+    }
+
+    /// Move the terms `ids` into the radius.
+    fn fold(&mut self, ids: Vec<usize>, syms: &[Symbol]) {
+        for k in ids {
             let a = self.terms.remove(&k).expect("term present");
             let (m, v) = term_moments(&a, syms[k]);
             self.mean -= m;
@@ -269,6 +299,18 @@ impl ValForm {
             self.rem += aa;
         }
         self.var = self.var.max(0.0);
+    }
+
+    /// Keep at most `max` terms: the smallest go into the radius.
+    pub(crate) fn cap(&mut self, max: usize, syms: &[Symbol]) {
+        if self.terms.len() <= max {
+            return;
+        }
+        let mut keyed: Vec<(Num, usize)> =
+            self.terms.iter().map(|(k, a)| (a.abs(), *k)).collect();
+        keyed.sort_by(|a, b| b.0.cmp(&a.0));
+        let gone = keyed.drain(max.div_ceil(2)..).map(|(_, k)| k).collect();
+        self.fold(gone, syms);
     }
 
     /// A copy for a second consumer (capped to `max` terms).
@@ -287,69 +329,67 @@ impl ValForm {
     ) -> ValForm {
         if a.is_point() {
             let k = &a.center * &a.scale;
-            b.scale_exact(&k, prec);
+            b.scale_exact(&k, syms, prec);
             return b;
         }
         if b.is_point() {
             let k = &b.center * &b.scale;
-            a.scale_exact(&k, prec);
+            a.scale_exact(&k, syms, prec);
             return a;
         }
         a.cap(max_terms, syms);
         b.cap(max_terms, syms);
-        a.materialize(prec);
-        b.materialize(prec);
+        a.materialize(syms, prec);
+        b.materialize(syms, prec);
         let (ma, va) = (a.mean + a.rem_mean, a.var + a.rem_var);
         let (mb, vb) = (b.mean + b.rem_mean, b.var + b.rem_var);
-        let (ca, cb) = (&a.center, &b.center);
-        let mut out = ValForm::constant(ca * cb);
+        let (ca, cb) = (a.center.clone(), b.center.clone());
+        let times = |x: &Num, k: &Num| Interval::point(x.clone()).scale_round(k, prec);
+        let mut out = ValForm::constant(Num::ZERO);
+        out.set_center(times(&ca, &cb), prec);
         // Linear part: c_a·B + c_b·A, merged over the sorted symbols.
         let mut shared_mean = 0.0;
         let mut ia = a.terms.iter().peekable();
         let mut ib = b.terms.iter().peekable();
         loop {
-            let (k, c) = match (ia.peek(), ib.peek()) {
+            let (k, p) = match (ia.peek(), ib.peek()) {
                 (None, None) => break,
                 (Some((ka, x)), Some((kb, y))) if ka == kb => {
                     let (k, x, y) = (**ka, *x, *y);
                     shared_mean += x.to_f64() * y.to_f64() * syms[k].var;
                     ia.next();
                     ib.next();
-                    (k, cb * x + ca * y)
+                    (k, times(x, &cb).add(&times(y, &ca)))
                 }
                 (Some((ka, x)), Some((kb, _))) if ka < kb => {
                     let (k, x) = (**ka, *x);
                     ia.next();
-                    (k, cb * x)
+                    (k, times(x, &cb))
                 }
                 (Some((ka, x)), None) => {
                     let (k, x) = (**ka, *x);
                     ia.next();
-                    (k, cb * x)
+                    (k, times(x, &cb))
                 }
                 (_, Some((kb, y))) => {
                     let (k, y) = (**kb, *y);
                     ib.next();
-                    (k, ca * y)
+                    (k, times(y, &ca))
                 }
             };
-            if !c.is_zero() {
-                let (m, v) = term_moments(&c, syms[k]);
-                out.mean += m;
-                out.var += v;
-                out.rad += c.abs();
-                out.terms.insert(k, c);
-            }
+            out.add_term(k, p, syms, prec);
         }
+        // The nonlinear part (A + r_a δ)(B + r_b δ) and the centers times
+        // the other radius: |c_a|·r_b + |c_b|·r_a + R_a·R_b.
+        let up = |x: &Num, y: &Num| x.mul_round(y, prec, Direction::Up);
         let ra = &a.rad + &a.rem;
         let rb = &b.rad + &b.rem;
-        out.rem = ca.abs() * &b.rem + cb.abs() * &a.rem + &ra * &rb;
-        // The nonlinear part (A + r_a δ)(B + r_b δ): E[AB] = E[A]E[B] plus
-        // the shared symbols' variances; its variance as for independent
-        // parts.
+        out.rem += up(&ca.abs(), &b.rem) + up(&cb.abs(), &a.rem) + up(&ra, &rb);
+        tame(&mut out.rem, prec, Direction::Up);
+        // E[AB] = E[A]E[B] plus the shared symbols' variances; the variance
+        // as for independent parts.
         out.rem_mean = ma * mb + shared_mean;
         out.rem_var = va * vb + va * mb * mb + vb * ma * ma;
-        out.tame_all(prec);
         out
     }
 }

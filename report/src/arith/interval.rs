@@ -8,6 +8,8 @@
 
 use super::num::{Direction, Num};
 
+use Direction::{Down, Up};
+
 /// A closed interval `[lo, hi]` of exact numbers.
 ///
 /// ```
@@ -123,6 +125,89 @@ impl Interval {
             )
         };
         Interval { lo, hi }
+    }
+
+    /// [`Interval::mul`] with each end rounded outward to `prec` bits
+    /// where the exact product would cost more (see [`Num::mul_round`]).
+    ///
+    /// ```
+    /// use qbound_report::arith::{Interval, Num};
+    /// let x = Interval::new(Num::dyadic(-3, -1), Num::dyadic(5, -2));
+    /// assert_eq!(x.mul_round(&x, 120), x.mul(&x));
+    /// ```
+    #[must_use]
+    pub fn mul_round(&self, o: &Interval, prec: u32) -> Interval {
+        if prec == u32::MAX {
+            return self.mul(o);
+        }
+        let (a, b) = (self, o);
+        let p = |x: &Num, y: &Num, d: Direction| x.mul_round(y, prec, d);
+        if a.is_point() && b.is_point() {
+            return Interval::new(p(&a.lo, &b.lo, Down), p(&a.lo, &b.lo, Up));
+        }
+        let (lo, hi) = if !a.lo.is_negative() {
+            if !b.lo.is_negative() {
+                (p(&a.lo, &b.lo, Down), p(&a.hi, &b.hi, Up))
+            } else if !b.hi.is_positive() {
+                (p(&a.hi, &b.lo, Down), p(&a.lo, &b.hi, Up))
+            } else {
+                (p(&a.hi, &b.lo, Down), p(&a.hi, &b.hi, Up))
+            }
+        } else if !a.hi.is_positive() {
+            if !b.lo.is_negative() {
+                (p(&a.lo, &b.hi, Down), p(&a.hi, &b.lo, Up))
+            } else if !b.hi.is_positive() {
+                (p(&a.hi, &b.hi, Down), p(&a.lo, &b.lo, Up))
+            } else {
+                (p(&a.lo, &b.hi, Down), p(&a.lo, &b.lo, Up))
+            }
+        } else if !b.lo.is_negative() {
+            (p(&a.lo, &b.hi, Down), p(&a.hi, &b.hi, Up))
+        } else if !b.hi.is_positive() {
+            (p(&a.hi, &b.lo, Down), p(&a.lo, &b.lo, Up))
+        } else {
+            (
+                p(&a.lo, &b.hi, Down).min(p(&a.hi, &b.lo, Down)),
+                p(&a.lo, &b.lo, Up).max(p(&a.hi, &b.hi, Up)),
+            )
+        };
+        Interval { lo, hi }
+    }
+
+    /// [`Interval::scale`] with each end rounded outward to `prec` bits
+    /// where the exact product would cost more.
+    #[must_use]
+    pub fn scale_round(&self, k: &Num, prec: u32) -> Interval {
+        if k.is_negative() {
+            Interval {
+                lo: self.hi.mul_round(k, prec, Down),
+                hi: self.lo.mul_round(k, prec, Up),
+            }
+        } else {
+            Interval {
+                lo: self.lo.mul_round(k, prec, Down),
+                hi: self.hi.mul_round(k, prec, Up),
+            }
+        }
+    }
+
+    /// `self / k` rounded outward to `prec` bits (exact when `k` is a unit).
+    ///
+    /// # Panics
+    /// If `k` is zero.
+    #[must_use]
+    pub fn div_round(&self, k: &Num, prec: u32) -> Interval {
+        if k.is_negative() {
+            Interval {
+                lo: self.hi.div_round(k, prec, Down),
+                hi: self.lo.div_round(k, prec, Up),
+            }
+        } else {
+            Interval {
+                lo: self.lo.div_round(k, prec, Down),
+                hi: self.hi.div_round(k, prec, Up),
+            }
+        }
     }
 
     /// `{x² : x in self}` (tighter than `self.mul(self)` when the interval

@@ -547,6 +547,127 @@ impl Num {
         Num::from_big(q, e2 - s, 0).round_out(prec, dir)
     }
 
+    /// `self · o` rounded toward `dir` to at most `prec` significant bits
+    /// when the exact product would cost more than `prec` bits (exact
+    /// otherwise). Dyadic factors on the fast path multiply in 256 bits
+    /// without allocating.
+    ///
+    /// ```
+    /// use qbound_report::arith::{Direction, Num};
+    /// let a = Num::dyadic((1 << 100) + 1, 0);
+    /// let up = a.mul_round(&a, 64, Direction::Up);
+    /// let down = a.mul_round(&a, 64, Direction::Down);
+    /// let exact = &a * &a;
+    /// assert!(down < exact && exact < up);
+    /// assert_eq!(Num::from(3).mul_round(&Num::from(5), 64, Direction::Up), Num::from(15));
+    /// ```
+    #[must_use]
+    pub fn mul_round(&self, o: &Num, prec: u32, dir: Direction) -> Num {
+        if prec == u32::MAX {
+            return self * o;
+        }
+        if let (
+            Repr::Small {
+                m: ma,
+                e2: a2,
+                e5: 0,
+            },
+            Repr::Small {
+                m: mb,
+                e2: b2,
+                e5: 0,
+            },
+        ) = (&self.0, &o.0)
+        {
+            if *ma == 0 || *mb == 0 {
+                return Num::ZERO;
+            }
+            let neg = (*ma < 0) != (*mb < 0);
+            let (hi, lo) = mul_u128(ma.unsigned_abs(), mb.unsigned_abs());
+            let bits = if hi == 0 {
+                128 - lo.leading_zeros()
+            } else {
+                256 - hi.leading_zeros()
+            };
+            let prec = prec.clamp(1, 126);
+            if bits <= prec {
+                let m = lo as i128;
+                return Num::from_small(if neg { -m } else { m }, a2 + b2, 0);
+            }
+            let s = bits - prec;
+            let (q, inexact) = shr_u256(hi, lo, s);
+            // Round the magnitude up when the signed result must go away
+            // from zero: up for positive toward +∞, down-magnitude else.
+            let away = matches!((neg, dir), (false, Direction::Up) | (true, Direction::Down));
+            let q = if inexact && away { q + 1 } else { q };
+            let m = q as i128;
+            return Num::from_small(if neg { -m } else { m }, a2 + b2 + i64::from(s), 0);
+        }
+        let p = self * o;
+        if p.cost_bits() > u64::from(prec) {
+            p.round_out(prec, dir)
+        } else {
+            p
+        }
+    }
+
+    /// `self / d` rounded toward `dir` to at most `prec` significant bits
+    /// (exact when `d` is a unit, see [`Num::is_unit`]).
+    ///
+    /// # Panics
+    /// If `d` is zero.
+    ///
+    /// ```
+    /// use qbound_report::arith::{Direction, Num};
+    /// let third_lo = Num::ONE.div_round(&Num::from(3), 20, Direction::Down);
+    /// let third_hi = Num::ONE.div_round(&Num::from(3), 20, Direction::Up);
+    /// assert!(&third_lo * &Num::from(3) < Num::ONE && Num::ONE < &third_hi * &Num::from(3));
+    /// assert_eq!(Num::ONE.div_round(&"0.5".parse().unwrap(), 20, Direction::Up), Num::from(2));
+    /// ```
+    #[must_use]
+    pub fn div_round(&self, d: &Num, prec: u32, dir: Direction) -> Num {
+        assert!(!d.is_zero(), "division by zero");
+        if let Some(q) = self.div_unit(d) {
+            return q;
+        }
+        if self.is_zero() {
+            return Num::ZERO;
+        }
+        let prec = prec.clamp(1, u32::MAX - 8);
+        // value = (ma·5^p)/(mb·5^q) · 2^(a2 - b2).
+        let (ma, a2, a5) = self.parts();
+        let (mb, b2, b5) = d.parts();
+        let neg = (self.is_negative()) != (d.is_negative());
+        let mut n = ma.big();
+        let mut dd = mb.big();
+        if n < IBig::ZERO {
+            n = -n;
+        }
+        if dd < IBig::ZERO {
+            dd = -dd;
+        }
+        if a5 > b5 {
+            n *= pow5_big((a5 - b5).unsigned_abs());
+        } else if b5 > a5 {
+            dd *= pow5_big((b5 - a5).unsigned_abs());
+        }
+        let s = i64::from(prec) + 2 + dd.bit_len() as i64 - n.bit_len() as i64;
+        let (n, dd) = if s >= 0 {
+            (n << (s as usize), dd)
+        } else {
+            (n, dd << (s.unsigned_abs() as usize))
+        };
+        let (mut q, r) = n.div_rem_euclid(dd);
+        // Magnitude rounding: away from zero when the signed result must
+        // move that way.
+        let away = matches!((neg, dir), (false, Direction::Up) | (true, Direction::Down));
+        if away && !r.is_zero() {
+            q += IBig::ONE;
+        }
+        let q = if neg { -q } else { q };
+        Num::from_big(q, a2 - b2 - s, 0).round_out(prec, dir)
+    }
+
     /// An approximation as `f64` (for display and statistics only).
     #[must_use]
     pub fn to_f64(&self) -> f64 {
@@ -667,6 +788,35 @@ fn shr_dir(m: M, s: u64, dir: Direction) -> M {
                 q
             })
         }
+    }
+}
+
+/// The 256-bit product of two `u128`, as (high, low) halves.
+fn mul_u128(a: u128, b: u128) -> (u128, u128) {
+    let (a1, a0) = (a >> 64, a & u128::from(u64::MAX));
+    let (b1, b0) = (b >> 64, b & u128::from(u64::MAX));
+    let p00 = a0 * b0;
+    let p01 = a0 * b1;
+    let p10 = a1 * b0;
+    let p11 = a1 * b1;
+    let mid = (p00 >> 64) + (p01 & u128::from(u64::MAX)) + (p10 & u128::from(u64::MAX));
+    let lo = (p00 & u128::from(u64::MAX)) | (mid << 64);
+    let hi = p11 + (p01 >> 64) + (p10 >> 64) + (mid >> 64);
+    (hi, lo)
+}
+
+/// `(hi, lo) >> s` for `0 < s < 256` whose result fits a `u128`, and
+/// whether any bit shifted out was set.
+fn shr_u256(hi: u128, lo: u128, s: u32) -> (u128, bool) {
+    if s >= 128 {
+        let t = s - 128;
+        let q = if t == 0 { hi } else { hi >> t };
+        let lost = lo != 0 || (t > 0 && hi & ((1u128 << t) - 1) != 0);
+        (q, lost)
+    } else {
+        let q = (lo >> s) | (hi << (128 - s));
+        let lost = lo & ((1u128 << s) - 1) != 0;
+        (q, lost)
     }
 }
 
