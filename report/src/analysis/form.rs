@@ -9,14 +9,13 @@
 //! representation that keeps the cost of every node independent of how
 //! many sources reach it:
 //!
-//! - A lazy constant factor `scale` multiplies everything in the form, so
-//!   a shift, a negation or a product with a constant is one
-//!   multiplication, not one per term. It is pushed into the terms when it
-//!   costs more than `SCALE_BITS` bits. A merge whose factor between the
-//!   two scales is not exact (a ratio of two decimal constants) either
-//!   pushes a small form's scale into its terms, or multiplies the smaller
-//!   form's terms by an outward-rounded enclosure of the factor, so an
-//!   unrolled recursion `y = c·y + x` costs the same at every step.
+//! - A lazy factor `scale` ([`super::scale`]) multiplies everything in the
+//!   form, so a shift, a negation, a product with a constant or with a
+//!   signal's range touches one number, not every term. A merge whose
+//!   factor between the two scales is not exact either pushes a small
+//!   form's scale into its terms, or multiplies the smaller form's terms by
+//!   an outward-rounded enclosure of the factor, so an unrolled recursion
+//!   `y = c·y + x` costs the same at every step.
 //! - The interval of the form (`Σ coef·ε + rem`, before `scale`) is kept as
 //!   a running sum: a merge adds and subtracts the end points of the terms
 //!   it touches (interval sums are sums of end points). Each update rounds
@@ -43,10 +42,10 @@
 //!   also reaches the node along another path), so no single node costs
 //!   more than `O(max_terms)` term operations.
 
-use std::collections::BTreeMap;
-
-use crate::arith::{Direction, Interval, Num};
-use crate::model::NodeId;
+use super::scale::{Factor, Scale};
+use super::terms::TermMap;
+use crate::arith::{Direction, Interval, Num, decimal_text};
+use crate::model::{Datapath, InputKind, NodeId, Op};
 
 /// The kind of an error source.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
@@ -77,8 +76,43 @@ pub struct Source {
     pub mean: f64,
     /// Variance (noise model).
     pub var: f64,
-    /// A label for people.
-    pub label: String,
+}
+
+impl Source {
+    /// A label for people (`rounding at acc (nearest-even, 15 bits
+    /// dropped)`), made from the node where the source enters.
+    #[must_use]
+    pub fn label(&self, path: &Datapath) -> String {
+        let nd = path.node(self.node);
+        let name = path.label(self.node);
+        let f = nd.format;
+        match (&nd.op, self.kind) {
+            (Op::Input { kind: InputKind::Quantized(m), .. }, SourceKind::InputQuantization) => {
+                format!("quantization of input {name} ({} into {f})", m.name())
+            }
+            (Op::Input { .. }, _) => format!("saturation of input {name}"),
+            (Op::Const { value, .. }, _) => {
+                format!("constant {name} = {} in {f}", decimal_text(value))
+            }
+            (
+                Op::Rescale {
+                    src,
+                    rounding,
+                    overflow,
+                },
+                kind,
+            ) => match kind {
+                SourceKind::Rounding => format!(
+                    "rounding at {name} ({}, {} bits dropped)",
+                    rounding.name(),
+                    path.node(*src).format.frac_bits().saturating_sub(f.frac_bits())
+                ),
+                SourceKind::Wrap => format!("wrap-around at {name} ({})", overflow.name()),
+                _ => format!("saturation at {name} ({})", overflow.name()),
+            },
+            _ => format!("error at {name}"),
+        }
+    }
 }
 
 /// One term `g · ε_s` of an affine form.
@@ -144,9 +178,6 @@ const TINY_BITS: i64 = 24;
 /// A product with a signal folds every term that cannot come back when the
 /// form holds more than this many terms.
 const MATERIALIZE_KEEP: usize = 32;
-/// The lazy scale is pushed into the terms once it costs more than this
-/// many bits (keeps the f64 moments finite).
-pub(crate) const SCALE_BITS: u64 = 60;
 /// A form with at most this many terms pushes its scale into the terms
 /// rather than merge with an inexact factor.
 pub(crate) const SMALL_FORM: usize = 16;
@@ -234,77 +265,6 @@ impl Owners {
     }
 }
 
-/// The factor that brings one form's terms into another's units.
-pub(crate) enum Factor {
-    /// The same scale.
-    One,
-    /// An exact ratio.
-    Exact(Num),
-    /// An outward-rounded enclosure of an inexact ratio.
-    Enclosed(Interval),
-}
-
-impl Factor {
-    /// `from / to`.
-    pub(crate) fn between(from: &Num, to: &Num, prec: u32) -> Factor {
-        if from == to {
-            return Factor::One;
-        }
-        if let Some(k) = from.div_unit(to) {
-            return if k == Num::ONE {
-                Factor::One
-            } else {
-                Factor::Exact(k)
-            };
-        }
-        if prec == u32::MAX {
-            // Exact mode: the caller takes the scale into the terms first.
-            return Factor::Enclosed(Interval::point(Num::ONE));
-        }
-        Factor::Enclosed(Interval::point(from.clone()).div_round(to, prec))
-    }
-
-    pub(crate) fn neg(self) -> Factor {
-        match self {
-            Factor::One => Factor::Exact(Num::from(-1)),
-            Factor::Exact(k) => {
-                let n = -k;
-                if n == Num::ONE {
-                    Factor::One
-                } else {
-                    Factor::Exact(n)
-                }
-            }
-            Factor::Enclosed(iv) => Factor::Enclosed(iv.neg()),
-        }
-    }
-
-    pub(crate) fn to_f64(&self) -> f64 {
-        match self {
-            Factor::One => 1.0,
-            Factor::Exact(k) => k.to_f64(),
-            Factor::Enclosed(iv) => iv.lo.to_f64(),
-        }
-    }
-
-    /// `x` times the factor, outward.
-    pub(crate) fn apply(&self, x: &Interval, prec: u32) -> Interval {
-        match self {
-            Factor::One => x.clone(),
-            Factor::Exact(k) => x.scale_round(k, prec),
-            Factor::Enclosed(kv) => x.mul_round(kv, prec),
-        }
-    }
-}
-
-/// An outward-rounded dyadic enclosure of `k` when `k` is not dyadic and
-/// costs more than a short decimal (so products with it stay on the
-/// dyadic fast path); `None` when `k` itself is cheap enough to use.
-pub(crate) fn enclosure(k: &Num, prec: u32) -> Option<Interval> {
-    (prec != u32::MAX && !k.is_dyadic() && k.cost_bits() > 24)
-        .then(|| Interval::point(k.clone()).round_out(prec))
-}
-
 /// Round `x` toward `dir` if it costs more than `prec` bits.
 pub(crate) fn tame(x: &mut Num, prec: u32, dir: Direction) {
     if prec != u32::MAX && x.cost_bits() > u64::from(prec) {
@@ -315,9 +275,9 @@ pub(crate) fn tame(x: &mut Num, prec: u32, dir: Direction) {
 /// The working affine form (see the module docs).
 #[derive(Debug)]
 pub(crate) struct Form {
-    /// A nonzero constant multiplying everything (1 when none is pending).
-    scale: Num,
-    terms: BTreeMap<usize, WTerm>,
+    /// A nonzero factor multiplying everything (1 when none is pending).
+    scale: Scale,
+    terms: TermMap<WTerm>,
     rem: Interval,
     /// `Σ iv + rem`, before `scale`; ends kept apart because the running
     /// sum passes through values that are not ordered intervals.
@@ -335,8 +295,8 @@ pub(crate) struct Form {
 impl Form {
     pub(crate) fn zero() -> Form {
         Form {
-            scale: Num::ONE,
-            terms: BTreeMap::new(),
+            scale: Scale::one(),
+            terms: TermMap::default(),
             rem: Interval::zero(),
             sum_lo: Num::ZERO,
             sum_hi: Num::ZERO,
@@ -400,14 +360,12 @@ impl Form {
 
     fn add_sums(&mut self, lo: &Num, hi: &Num, add: bool, prec: u32) {
         if add {
-            self.sum_lo += lo;
-            self.sum_hi += hi;
+            self.sum_lo = self.sum_lo.add_round(lo, prec, Direction::Down);
+            self.sum_hi = self.sum_hi.add_round(hi, prec, Direction::Up);
         } else {
-            self.sum_lo -= lo;
-            self.sum_hi -= hi;
+            self.sum_lo = self.sum_lo.add_round(&-lo, prec, Direction::Down);
+            self.sum_hi = self.sum_hi.add_round(&-hi, prec, Direction::Up);
         }
-        tame(&mut self.sum_lo, prec, Direction::Down);
-        tame(&mut self.sum_hi, prec, Direction::Up);
     }
 
     fn add_term_sums(&mut self, t: &WTerm, add: bool, prec: u32) {
@@ -421,14 +379,22 @@ impl Form {
         }
     }
 
+    /// Recompute the running sums from the stored terms, rounding each
+    /// partial sum outward: the sums then enclose exactly what removing a
+    /// stored term later subtracts.
+    fn resum(&mut self, prec: u32) {
+        let (mut lo, mut hi) = (self.rem.lo.clone(), self.rem.hi.clone());
+        for (_, t) in self.terms.iter() {
+            lo = lo.add_round(&t.iv.lo, prec, Direction::Down);
+            hi = hi.add_round(&t.iv.hi, prec, Direction::Up);
+        }
+        (self.sum_lo, self.sum_hi) = (lo, hi);
+    }
+
     /// An interval holding every value of the form.
     pub(crate) fn interval(&self, prec: u32) -> Interval {
         let sums = Interval::new(self.sum_lo.clone(), self.sum_hi.clone());
-        let mut r = if self.scale == Num::ONE {
-            sums
-        } else {
-            sums.scale_round(&self.scale, prec)
-        };
+        let mut r = self.scale.apply(&sums, prec);
         r.round_costly(prec);
         r
     }
@@ -445,52 +411,32 @@ impl Form {
     /// Add `iv` (an interval holding whatever it stands for, in this form's
     /// scaled units) with moments `(m, v)` to the remainder.
     pub(crate) fn add_rem(&mut self, iv: &Interval, m: f64, v: f64, prec: u32) {
-        let mut iv = if self.scale == Num::ONE {
-            iv.clone()
-        } else {
-            iv.div_round(&self.scale, prec)
-        };
+        let mut iv = self.scale.unapply(iv, prec);
         iv.round_costly(prec);
         let kf = 1.0 / self.scale.to_f64();
         self.add_sums(&iv.lo, &iv.hi, true, prec);
-        self.rem = self.rem.add(&iv);
-        self.rem.round_costly(prec);
+        self.rem = self.rem.add_round(&iv, prec);
         self.rem_mean += m * kf;
         self.rem_var += v * kf * kf;
     }
 
     /// Push the lazy scale into the terms.
     fn materialize(&mut self, prec: u32) {
-        if self.scale == Num::ONE {
+        if self.scale.is_one() {
             return;
         }
-        let k = std::mem::replace(&mut self.scale, Num::ONE);
-        self.multiply_terms(&k, prec);
-    }
-
-    /// Multiply every term, the remainder and the sums by `k` (no lazy
-    /// scale pending). A costly non-dyadic `k` is replaced by its
-    /// outward-rounded enclosure, so every product is dyadic.
-    fn multiply_terms(&mut self, k: &Num, prec: u32) {
+        let k = std::mem::replace(&mut self.scale, Scale::one());
         let kf = k.to_f64();
-        let kiv = enclosure(k, prec);
-        let times = |x: &Interval| match &kiv {
-            None => x.scale_round(k, prec),
-            Some(kv) => x.mul_round(kv, prec),
-        };
-        for t in self.terms.values_mut() {
-            t.coef = times(&t.coef);
-            t.iv = times(&t.iv);
+        self.terms.for_each_mut(|t| {
+            t.coef = k.apply(&t.coef, prec);
+            t.iv = k.apply(&t.iv, prec);
             t.gm *= kf;
             t.gv *= kf * kf;
             t.m *= kf;
             t.v *= kf * kf;
-        }
-        self.rem = times(&self.rem);
-        let sums = times(&Interval::new(self.sum_lo.clone(), self.sum_hi.clone()));
-        (self.sum_lo, self.sum_hi) = (sums.lo, sums.hi);
-        tame(&mut self.sum_lo, prec, Direction::Down);
-        tame(&mut self.sum_hi, prec, Direction::Up);
+        });
+        self.rem = k.apply(&self.rem, prec);
+        self.resum(prec);
         self.mean *= kf;
         self.var *= kf * kf;
         self.rem_mean *= kf;
@@ -504,12 +450,8 @@ impl Form {
             *self = Form::zero();
             return;
         }
-        if *k == Num::ONE {
-            return;
-        }
-        self.scale *= k;
-        if self.scale.cost_bits() > SCALE_BITS {
-            self.materialize(owners.prec);
+        if *k != Num::ONE {
+            self.scale.times(k, owners.prec);
         }
     }
 
@@ -532,7 +474,7 @@ impl Form {
             self.fold_where(owners, |_| true);
         }
         self.cap(max_terms, owners);
-        self.materialize(owners.prec);
+        // The lazy scale stays: scale·(coef·v) = (scale·coef)·v.
         let prec = owners.prec;
         let e2 = vv + vm * vm;
         let mom = |gm: f64, gv: f64| -> (f64, f64) {
@@ -546,8 +488,10 @@ impl Form {
         let rem_var =
             (e2 * (self.rem_var + self.rem_mean * self.rem_mean) - rem_mean * rem_mean).max(0.0);
         let next_scan = self.next_scan;
+        let scale = std::mem::replace(&mut self.scale, Scale::one());
         *self = Form::zero();
         self.next_scan = next_scan;
+        self.scale = scale;
         self.rem = rem.clone();
         self.sum_lo = rem.lo;
         self.sum_hi = rem.hi;
@@ -586,50 +530,99 @@ impl Form {
             factor = factor.neg();
         }
         let ff = factor.to_f64();
-        for (&s, t) in &other.terms {
-            let coef = factor.apply(&t.coef, prec);
-            let (gm, gv) = (t.gm * ff, t.gv * ff * ff);
-            if let Some(old) = self.terms.remove(&s) {
-                self.add_term_sums(&old, false, prec);
-                let mut c = old.coef.add(&coef);
-                c.round_costly(prec);
-                self.insert(s, c, old.gm + gm, old.gv + gv, sources, owners);
-                if consumed {
-                    *owners.count_mut(s) -= 1;
-                }
-            } else {
-                let iv = match &factor {
-                    // A point factor scales `coef × ε` exactly: no new product.
-                    Factor::One => t.iv.clone(),
-                    Factor::Exact(k) => t.iv.scale_round(k, prec),
-                    Factor::Enclosed(_) => {
-                        coef.mul_round(owners.source(s, sources).0, prec)
+        if other.terms.len() > 32 && other.terms.len() * 4 >= self.terms.len() {
+            // Similar sizes: one linear merge of the two sorted term lists
+            // and a bulk rebuild, instead of one tree insertion per term.
+            let old = std::mem::take(&mut self.terms);
+            let mut out: Vec<(usize, WTerm)> = Vec::with_capacity(old.len() + other.terms.len());
+            let mut mine = old.into_sorted().peekable();
+            for (&s, t) in &other.terms {
+                while let Some((k, _)) = mine.peek() {
+                    if *k >= s {
+                        break;
                     }
-                };
-                let nt = WTerm {
-                    coef,
-                    iv,
-                    gm,
-                    gv,
-                    m: t.m * ff,
-                    v: t.v * ff * ff,
-                };
-                self.add_term_sums(&nt, true, prec);
-                self.terms.insert(s, nt);
-                if !consumed {
-                    *owners.count_mut(s) += 1;
+                    out.push(mine.next().expect("peeked"));
                 }
+                let prev = match mine.peek() {
+                    Some((k, _)) if *k == s => mine.next().map(|(_, w)| w),
+                    _ => None,
+                };
+                let nt = self.combine(s, prev, t, &factor, ff, consumed, sources, owners);
+                out.push((s, nt));
+            }
+            out.extend(mine);
+            self.terms = TermMap::from_sorted(out);
+        } else {
+            for (&s, t) in &other.terms {
+                let prev = self.terms.remove(&s);
+                let nt = self.combine(s, prev, t, &factor, ff, consumed, sources, owners);
+                self.terms.insert(s, nt);
             }
         }
         if !other.rem.is_zero() {
             let r = factor.apply(&other.rem, prec);
             self.add_sums(&r.lo, &r.hi, true, prec);
-            self.rem = self.rem.add(&r);
-            self.rem.round_costly(prec);
+            self.rem = self.rem.add_round(&r, prec);
         }
         self.rem_mean += other.rem_mean * ff;
         self.rem_var += other.rem_var * ff * ff;
         self.scan(owners);
+    }
+
+    /// The term of source `s` after adding `t` (a term of another form,
+    /// brought into this form's units by `factor`) to `prev` (this form's
+    /// term of `s`, already taken out of the map); keeps the running sums
+    /// and the owner counts.
+    #[allow(clippy::too_many_arguments)]
+    fn combine(
+        &mut self,
+        s: usize,
+        prev: Option<WTerm>,
+        t: &WTerm,
+        factor: &Factor,
+        ff: f64,
+        consumed: bool,
+        sources: &[Source],
+        owners: &mut Owners,
+    ) -> WTerm {
+        let prec = owners.prec;
+        let coef = factor.apply(&t.coef, prec);
+        let (gm, gv) = (t.gm * ff, t.gv * ff * ff);
+        if let Some(old) = prev {
+            self.add_term_sums(&old, false, prec);
+            let c = old.coef.add_round(&coef, prec);
+            let nt = Form::new_term(
+                c,
+                old.gm + gm,
+                old.gv + gv,
+                owners.source(s, sources),
+                prec,
+            );
+            self.add_term_sums(&nt, true, prec);
+            if consumed {
+                *owners.count_mut(s) -= 1;
+            }
+            nt
+        } else {
+            let iv = match factor {
+                // A point factor scales `coef × ε` exactly: no new product.
+                Factor::One | Factor::Exact(_) => factor.apply(&t.iv, prec),
+                Factor::Enclosed(_) => coef.mul_round(owners.source(s, sources).0, prec),
+            };
+            let nt = WTerm {
+                coef,
+                iv,
+                gm,
+                gv,
+                m: t.m * ff,
+                v: t.v * ff * ff,
+            };
+            self.add_term_sums(&nt, true, prec);
+            if !consumed {
+                *owners.count_mut(s) += 1;
+            }
+            nt
+        }
     }
 
     /// Fold the negligible terms whose source no other form holds, when the
@@ -671,16 +664,15 @@ impl Form {
         let (mut lo, mut hi, mut m, mut v) = (Num::ZERO, Num::ZERO, 0.0, 0.0);
         for id in ids {
             let t = self.terms.remove(&id).expect("term present");
-            lo += &t.iv.lo;
-            hi += &t.iv.hi;
-            tame(&mut lo, prec, Direction::Down);
-            tame(&mut hi, prec, Direction::Up);
+            lo = lo.add_round(&t.iv.lo, prec, Direction::Down);
+            hi = hi.add_round(&t.iv.hi, prec, Direction::Up);
             m += t.m;
             v += t.v;
             *owners.count_mut(id) -= 1;
         }
         let iv = Interval::new(lo, hi);
         let id = SYNTH | owners.synth.len();
+        let rounded = prec != u32::MAX;
         owners.synth.push((iv.clone(), m, v, 1));
         self.terms.insert(
             id,
@@ -693,6 +685,9 @@ impl Form {
                 v,
             },
         );
+        if rounded {
+            self.resum(prec);
+        }
     }
 
     /// Keep at most `max` terms: fold the smallest into one internal source
@@ -751,7 +746,7 @@ impl Form {
             if s & SYNTH == 0 {
                 terms.push(Term {
                     src: *s,
-                    coef: t.coef.scale(k),
+                    coef: k.apply(&t.coef, prec),
                     gm: t.gm * kf,
                     gv: t.gv * kf * kf,
                 });
@@ -764,7 +759,7 @@ impl Form {
         }
         Affine {
             terms,
-            rem: rem.scale(k),
+            rem: k.apply(&rem, prec),
             rem_mean: rem_mean * kf,
             rem_var: rem_var * kf * kf,
         }

@@ -64,6 +64,8 @@
 pub mod form;
 mod rounding;
 mod rules;
+mod scale;
+mod terms;
 mod value;
 
 use qbound::Overflow;
@@ -103,11 +105,12 @@ impl Default for AnalysisOptions {
     }
 }
 
-/// What the analysis found about overflow at a node.
-#[derive(Clone, Debug, Default)]
+/// What the analysis found about overflow at a node where an overflow mode
+/// acts (a rescale or a quantized input).
+#[derive(Clone, Debug)]
 pub struct OverflowInfo {
-    /// The overflow mode acting at the node, if any.
-    pub mode: Option<Overflow>,
+    /// The overflow mode acting at the node.
+    pub mode: Overflow,
     /// Whether the value can leave the format.
     pub can_overflow: bool,
     /// The range before the overflow mode acts.
@@ -125,10 +128,9 @@ pub struct NodeAnalysis {
     pub actual: Interval,
     /// Sound bound: the error lies in this interval.
     pub error: Interval,
-    /// The error's affine form. Complete at outputs and at nodes nobody
-    /// reads; at other nodes the terms moved on to the consumers and this
-    /// holds the bound as a remainder only (`terms` empty, `rem = error`).
-    pub form: Affine,
+    /// The error's affine form, at outputs and at nodes nobody reads (at
+    /// other nodes the terms moved on to the consumers).
+    pub form: Option<Box<Affine>>,
     /// Predicted mean of the ideal value.
     pub signal_mean: f64,
     /// Predicted variance of the ideal value.
@@ -137,8 +139,9 @@ pub struct NodeAnalysis {
     pub err_mean: f64,
     /// Predicted variance of the error.
     pub err_var: f64,
-    /// Overflow verdict.
-    pub overflow: OverflowInfo,
+    /// Overflow verdict, at nodes where an overflow mode acts (`None` for
+    /// exact operations, which cannot overflow).
+    pub overflow: Option<Box<OverflowInfo>>,
     /// The rounding source this node added, if any.
     pub rounding_source: Option<usize>,
 }
@@ -192,7 +195,7 @@ pub fn analyze_with(path: &Datapath, opts: &AnalysisOptions) -> Analysis {
     }
     for (i, out) in is_output.iter().enumerate() {
         let step = rules::node(path, &mut a, &mut w, NodeId(i));
-        let na = w.finish(path, &a, NodeId(i), step, *out);
+        let na = w.finish(path, NodeId(i), step, *out);
         a.nodes.push(na);
     }
     a

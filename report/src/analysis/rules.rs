@@ -8,20 +8,20 @@ use std::rc::Rc;
 
 use qbound::{Format, Overflow, Rounding};
 
-use super::form::{Affine, Form, Owners, Source, SourceKind};
+use super::form::{Form, Owners, Source, SourceKind};
 use super::rounding::{Sign, rounding_interval, rounding_moments};
 use super::value::{Symbol, ValForm};
 use super::{Analysis, AnalysisOptions, NodeAnalysis, OverflowInfo};
 use crate::arith::{
-    Interval, Num, ceil_to_grid, decimal_text, floor_to_grid, format_range, round_to_grid, ulp,
+    Interval, Num, ceil_to_grid, floor_to_grid, format_range, round_to_grid, ulp,
 };
 use crate::model::{Datapath, InputKind, NodeId, Op};
 
 /// The working state of one analysis: the forms of nodes that still have
 /// consumers, and how many consumers each has left.
 pub(super) struct Work {
-    forms: Vec<Option<Form>>,
-    vforms: Vec<Option<ValForm>>,
+    forms: Vec<Option<Box<Form>>>,
+    vforms: Vec<Option<Box<ValForm>>>,
     /// Range and step of each format met so far.
     formats: HashMap<Format, Rc<(Interval, Num)>>,
     remaining: Vec<u32>,
@@ -41,7 +41,7 @@ pub(super) struct Step {
     actual: Interval,
     form: Form,
     vform: ValForm,
-    overflow: OverflowInfo,
+    overflow: Option<Box<OverflowInfo>>,
     rounding_source: Option<usize>,
     /// A further sound interval for the error (after saturation).
     collapse: Option<Interval>,
@@ -54,7 +54,7 @@ impl Step {
             actual,
             form,
             vform,
-            overflow: OverflowInfo::default(),
+            overflow: None,
             rounding_source: None,
             collapse: None,
         }
@@ -97,8 +97,8 @@ impl Work {
         self.remaining[x.0] -= 1;
         if self.remaining[x.0] == 0 {
             (
-                self.forms[x.0].take().expect("form of a used node"),
-                self.vforms[x.0].take().expect("value form of a used node"),
+                *self.forms[x.0].take().expect("form of a used node"),
+                *self.vforms[x.0].take().expect("value form of a used node"),
             )
         } else {
             let f = self.forms[x.0].as_mut().expect("form of a used node");
@@ -133,7 +133,7 @@ impl Work {
         if vy.len() > vx.len() {
             let mut big = vy;
             if negate {
-                big.scale_exact(&Num::from(-1), &self.syms, self.prec);
+                big.scale_exact(&Num::from(-1), self.prec);
             }
             big.merge(&vx, false, &self.syms, self.prec);
             big
@@ -152,7 +152,6 @@ impl Work {
             eps: src.eps,
             mean: src.mean,
             var: src.var,
-            label: src.label,
         });
         w.owners.push();
         a.sources.len() - 1
@@ -163,7 +162,6 @@ impl Work {
     pub(super) fn finish(
         &mut self,
         path: &Datapath,
-        a: &Analysis,
         id: NodeId,
         step: Step,
         is_output: bool,
@@ -197,30 +195,19 @@ impl Work {
         diff.round_costly(prec);
         error.narrow(&diff);
         error.round_costly(prec);
-        if let Some(u) = overflow.unclamped.as_mut() {
+        if let Some(u) = overflow.as_mut().and_then(|o| o.unclamped.as_mut()) {
             u.round_costly(prec);
         }
         let (err_mean, err_var) = form.moments();
         let (signal_mean, signal_var) = vform.moments();
         let keep_all = is_output || self.remaining[i] == 0;
-        let summary = if keep_all {
-            form.to_affine(prec)
-        } else {
-            Affine {
-                terms: Vec::new(),
-                rem: error.clone(),
-                rem_mean: err_mean,
-                rem_var: err_var,
-            }
-        };
+        let summary = keep_all.then(|| Box::new(form.to_affine(prec)));
         if self.remaining[i] > 0 {
-            self.forms[i] = Some(form);
-            self.vforms[i] = Some(vform);
+            self.forms[i] = Some(Box::new(form));
+            self.vforms[i] = Some(Box::new(vform));
         } else {
             form.release(&mut self.owners);
         }
-        let _ = a;
-        overflow.saturation_error = overflow.saturation_error.take();
         NodeAnalysis {
             ideal,
             actual,
@@ -242,7 +229,6 @@ struct NewSource {
     eps: Interval,
     mean: f64,
     var: f64,
-    label: String,
 }
 
 /// The rule for node `id`.
@@ -301,7 +287,6 @@ fn input_quantized(
 ) -> Step {
     let f = path.node(id).format;
     let fq = w.format(f);
-    let label = path.label(id);
     let ideal = Interval::new(lo.clone(), hi.clone());
     let u = rounded_range(&ideal, f.frac_bits(), mode);
     let eps = rounding_interval(mode, &Num::ZERO, &fq.1, Sign::of(&ideal));
@@ -315,7 +300,6 @@ fn input_quantized(
             eps,
             mean: m,
             var: v,
-            label: format!("quantization of input {label} ({} into {f})", mode.name()),
         },
     );
     let mut form = Form::source(s, &a.sources, &mut w.owners);
@@ -331,7 +315,6 @@ fn input_quantized(
                 eps,
                 mean: 0.0,
                 var: 0.0,
-                label: format!("saturation of input {label}"),
             },
         );
         let f2 = Form::source(s2, &a.sources, &mut w.owners);
@@ -347,7 +330,7 @@ fn input_quantized(
         actual: c.actual,
         form,
         vform,
-        overflow: c.info,
+        overflow: Some(Box::new(c.info)),
         rounding_source: Some(s),
         collapse: c.collapse,
     }
@@ -377,11 +360,6 @@ fn constant(
                 eps: Interval::point(d.clone()),
                 mean: d.to_f64(),
                 var: 0.0,
-                label: format!(
-                    "constant {} = {} in {f}",
-                    path.label(id),
-                    decimal_text(value)
-                ),
             },
         );
         Form::source(s, &a.sources, &mut w.owners)
@@ -413,7 +391,7 @@ fn add_sub(a: &Analysis, w: &mut Work, x: NodeId, y: NodeId, sub: bool) -> Step 
 fn scale(a: &Analysis, w: &mut Work, x: NodeId, k: &Num) -> Step {
     let (mut form, mut vform) = w.operand(x);
     form.scale_exact(k, &mut w.owners);
-    vform.scale_exact(k, &w.syms, w.prec);
+    vform.scale_exact(k, w.prec);
     let nx = &a.nodes[x.0];
     Step::plain(nx.ideal.scale(k), nx.actual.scale(k), form, vform)
 }
@@ -476,7 +454,6 @@ fn rescale(
     let sf = path.node(src).format;
     let (mut form, vform) = w.operand(src);
     let fq = w.format(f);
-    let label = path.label(id);
     let nx = &a.nodes[src.0];
     let drops = sf.frac_bits() > f.frac_bits();
     let u = if drops {
@@ -503,11 +480,6 @@ fn rescale(
                 eps,
                 mean: m,
                 var: v,
-                label: format!(
-                    "rounding at {label} ({}, {} bits dropped)",
-                    rounding.name(),
-                    sf.frac_bits() - f.frac_bits()
-                ),
             },
         );
         rounding_source = Some(s);
@@ -519,11 +491,6 @@ fn rescale(
     let pre_err = fi.intersect(&u.sub(&nx.ideal)).unwrap_or(fi);
     let c = clamp_step(f, &fq.0, mode, &u, &nx.ideal, &pre_err);
     if let Some((kind, eps)) = c.source {
-        let what = if kind == SourceKind::Wrap {
-            "wrap-around"
-        } else {
-            "saturation"
-        };
         let s2 = Work::add_source(
             a,
             w,
@@ -533,7 +500,6 @@ fn rescale(
                 eps,
                 mean: 0.0,
                 var: 0.0,
-                label: format!("{what} at {label} ({})", mode.name()),
             },
         );
         let fs = Form::source(s2, &a.sources, &mut w.owners);
@@ -545,7 +511,7 @@ fn rescale(
         actual: c.actual,
         form,
         vform,
-        overflow: c.info,
+        overflow: Some(Box::new(c.info)),
         rounding_source,
         collapse: c.collapse,
     }
@@ -611,7 +577,7 @@ fn clamp_step(
             source: None,
             collapse: None,
             info: OverflowInfo {
-                mode: Some(mode),
+                mode,
                 can_overflow: false,
                 unclamped: Some(u.clone()),
                 saturation_error: None,
@@ -619,7 +585,7 @@ fn clamp_step(
         };
     }
     let info = |sat: Option<Num>| OverflowInfo {
-        mode: Some(mode),
+        mode,
         can_overflow: true,
         unclamped: Some(u.clone()),
         saturation_error: sat,

@@ -31,9 +31,9 @@
 //! accounted for in linear parts. The products' nonlinear parts use the
 //! independent-operand approximation.
 
-use std::collections::BTreeMap;
-
-use crate::analysis::form::{Factor, SCALE_BITS, SMALL_FORM, enclosure, tame};
+use super::form::{SMALL_FORM, tame};
+use super::scale::{Factor, Scale};
+use super::terms::TermMap;
 use crate::arith::{Direction, Interval, Num};
 
 /// Statistics of one input symbol `ε` (in units of the input's radius).
@@ -51,11 +51,11 @@ const TINY_BITS: i64 = 24;
 /// A value form (see the module docs).
 #[derive(Clone, Debug)]
 pub(crate) struct ValForm {
-    /// A nonzero constant multiplying the center and the terms (1 when
-    /// none is pending); its absolute value multiplies the radii.
-    scale: Num,
+    /// A nonzero factor multiplying the center and the terms (1 when none
+    /// is pending); its magnitude multiplies the radii.
+    scale: Scale,
     center: Num,
-    terms: BTreeMap<usize, Num>,
+    terms: TermMap<Num>,
     /// `Σ |a_k|` (kept as an upper bound).
     rad: Num,
     /// The extra radius `r >= 0` (an upper bound).
@@ -79,9 +79,9 @@ impl ValForm {
     /// The constant `c`.
     pub(crate) fn constant(c: Num) -> ValForm {
         ValForm {
-            scale: Num::ONE,
+            scale: Scale::one(),
             center: c,
-            terms: BTreeMap::new(),
+            terms: TermMap::default(),
             rad: Num::ZERO,
             rem: Num::ZERO,
             mean: 0.0,
@@ -112,17 +112,22 @@ impl ValForm {
         self.terms.len()
     }
 
-    /// Whether the value is a known number (no terms, no radius).
-    pub(crate) fn is_point(&self) -> bool {
-        self.terms.is_empty() && self.rem.is_zero()
+    /// The value, if it is a known number (no terms, no radius, an exact
+    /// factor).
+    pub(crate) fn point(&self) -> Option<Num> {
+        (self.terms.is_empty() && self.rem.is_zero())
+            .then(|| self.scale.point().map(|k| &self.center * k))
+            .flatten()
     }
 
     /// An interval holding every value of the form.
     pub(crate) fn interval(&self, prec: u32) -> Interval {
-        let k = &self.scale;
-        let c = Interval::point(self.center.clone()).scale_round(k, prec);
-        let r = (&self.rad + &self.rem).mul_round(&k.abs(), prec, Direction::Up);
-        let mut iv = Interval::new(&c.lo - &r, &c.hi + &r);
+        let r = self.rad.add_round(&self.rem, prec, Direction::Up);
+        let inner = Interval::new(
+            self.center.add_round(&-&r, prec, Direction::Down),
+            self.center.add_round(&r, prec, Direction::Up),
+        );
+        let mut iv = self.scale.apply(&inner, prec);
         iv.round_costly(prec);
         iv
     }
@@ -148,8 +153,7 @@ impl ValForm {
         }
         self.center = c;
         if !w.is_zero() {
-            self.rem += w;
-            tame(&mut self.rem, prec, Direction::Up);
+            self.rem = self.rem.add_round(&w, prec, Direction::Up);
         }
     }
 
@@ -158,13 +162,29 @@ impl ValForm {
     /// radius.
     fn add_term(&mut self, k: usize, p: Interval, syms: &[Symbol], prec: u32) {
         let old = self.terms.remove(&k);
+        if let Some(a) = self.combine(k, old, p, syms, prec) {
+            self.terms.insert(k, a);
+        }
+    }
+
+    /// The coefficient of symbol `k` after adding `p` (an enclosure) to
+    /// `old` (already taken out of the map), `None` when it is zero; keeps
+    /// the running sums and moves what rounding changed into the radius.
+    fn combine(
+        &mut self,
+        k: usize,
+        old: Option<Num>,
+        p: Interval,
+        syms: &[Symbol],
+        prec: u32,
+    ) -> Option<Num> {
         let mut a = p.lo.clone();
         let mut w = p.width();
         if let Some(o) = &old {
             let (m, v) = term_moments(o, syms[k]);
             self.mean -= m;
             self.var -= v;
-            self.rad -= o.abs();
+            self.rad = self.rad.add_round(&-o.abs(), prec, Direction::Up);
             a += o;
         }
         if prec != u32::MAX && a.cost_bits() > u64::from(prec) {
@@ -176,39 +196,26 @@ impl ValForm {
             let (m, v) = term_moments(&a, syms[k]);
             self.mean += m;
             self.var += v;
-            self.rad += a.abs();
-            self.terms.insert(k, a);
+            self.rad = self.rad.add_round(&a.abs(), prec, Direction::Up);
         }
-        tame(&mut self.rad, prec, Direction::Up);
         if !w.is_zero() {
-            self.rem += w;
-            tame(&mut self.rem, prec, Direction::Up);
+            self.rem = self.rem.add_round(&w, prec, Direction::Up);
         }
+        (!a.is_zero()).then_some(a)
     }
 
     /// Push the lazy scale into the center and the terms.
     fn materialize(&mut self, syms: &[Symbol], prec: u32) {
-        if self.scale == Num::ONE {
+        if self.scale.is_one() {
             return;
         }
-        let k = std::mem::replace(&mut self.scale, Num::ONE);
-        self.multiply(&k, syms, prec);
-    }
-
-    /// Multiply everything by `k` (no lazy scale pending). A costly
-    /// non-dyadic `k` is replaced by its outward-rounded enclosure.
-    fn multiply(&mut self, k: &Num, syms: &[Symbol], prec: u32) {
+        let k = std::mem::replace(&mut self.scale, Scale::one());
         let kf = k.to_f64();
-        let kiv = enclosure(k, prec);
-        let times = |x: &Num| match &kiv {
-            None => Interval::point(x.clone()).scale_round(k, prec),
-            Some(kv) => Interval::point(x.clone()).mul_round(kv, prec),
-        };
-        let kabs = kiv.as_ref().map_or_else(|| k.abs(), Interval::max_abs);
+        let times = |x: &Num| k.apply(&Interval::point(x.clone()), prec);
         let old = std::mem::take(&mut self.terms);
         let c = times(&self.center);
         self.rad = Num::ZERO;
-        self.rem = self.rem.mul_round(&kabs, prec, Direction::Up);
+        self.rem = self.rem.mul_round(&k.max_abs(), prec, Direction::Up);
         self.mean = 0.0;
         self.var = 0.0;
         self.rem_mean *= kf;
@@ -220,14 +227,11 @@ impl ValForm {
     }
 
     /// Multiply by an exact number.
-    pub(crate) fn scale_exact(&mut self, k: &Num, syms: &[Symbol], prec: u32) {
+    pub(crate) fn scale_exact(&mut self, k: &Num, prec: u32) {
         if k.is_zero() {
             *self = ValForm::constant(Num::ZERO);
         } else if *k != Num::ONE {
-            self.scale *= k;
-            if self.scale.cost_bits() > SCALE_BITS {
-                self.materialize(syms, prec);
-            }
+            self.scale.times(k, prec);
         }
     }
 
@@ -248,17 +252,36 @@ impl ValForm {
         let c = point(&other.center);
         let c = Interval::new(&c.lo + &self.center, &c.hi + &self.center);
         self.set_center(c, prec);
-        for (&k, b) in &other.terms {
-            self.add_term(k, point(b), syms, prec);
+        if other.terms.len() > 32 && other.terms.len() * 4 >= self.terms.len() {
+            // Similar sizes: one linear merge and a bulk rebuild.
+            let old = std::mem::take(&mut self.terms);
+            let mut out: Vec<(usize, Num)> = Vec::with_capacity(old.len() + other.terms.len());
+            let mut mine = old.into_sorted().peekable();
+            for (&k, b) in &other.terms {
+                while let Some((j, _)) = mine.peek() {
+                    if *j >= k {
+                        break;
+                    }
+                    out.push(mine.next().expect("peeked"));
+                }
+                let prev = match mine.peek() {
+                    Some((j, _)) if *j == k => mine.next().map(|(_, a)| a),
+                    _ => None,
+                };
+                if let Some(a) = self.combine(k, prev, point(b), syms, prec) {
+                    out.push((k, a));
+                }
+            }
+            out.extend(mine);
+            self.terms = TermMap::from_sorted(out);
+        } else {
+            for (&k, b) in &other.terms {
+                self.add_term(k, point(b), syms, prec);
+            }
         }
         if !other.rem.is_zero() {
-            let fa = match &factor {
-                Factor::One => Num::ONE,
-                Factor::Exact(f) => f.abs(),
-                Factor::Enclosed(iv) => iv.max_abs(),
-            };
-            self.rem += other.rem.mul_round(&fa, prec, Direction::Up);
-            tame(&mut self.rem, prec, Direction::Up);
+            let r = other.rem.mul_round(&factor.max_abs(), prec, Direction::Up);
+            self.rem = self.rem.add_round(&r, prec, Direction::Up);
         }
         self.rem_mean += other.rem_mean * ff;
         self.rem_var += other.rem_var * ff * ff;
@@ -327,20 +350,19 @@ impl ValForm {
         syms: &[Symbol],
         prec: u32,
     ) -> ValForm {
-        if a.is_point() {
-            let k = &a.center * &a.scale;
-            b.scale_exact(&k, syms, prec);
+        if let Some(k) = a.point() {
+            b.scale_exact(&k, prec);
             return b;
         }
-        if b.is_point() {
-            let k = &b.center * &b.scale;
-            a.scale_exact(&k, syms, prec);
+        if let Some(k) = b.point() {
+            a.scale_exact(&k, prec);
             return a;
         }
         a.cap(max_terms, syms);
         b.cap(max_terms, syms);
-        a.materialize(syms, prec);
-        b.materialize(syms, prec);
+        // (S_a·A)(S_b·B) = S_a·S_b·(A·B): the factors stay lazy.
+        let mut scale = std::mem::replace(&mut a.scale, Scale::one());
+        scale.times_scale(&b.scale, prec);
         let (ma, va) = (a.mean + a.rem_mean, a.var + a.rem_var);
         let (mb, vb) = (b.mean + b.rem_mean, b.var + b.rem_var);
         let (ca, cb) = (a.center.clone(), b.center.clone());
@@ -390,6 +412,7 @@ impl ValForm {
         // as for independent parts.
         out.rem_mean = ma * mb + shared_mean;
         out.rem_var = va * vb + va * mb * mb + vb * ma * ma;
+        out.scale = scale;
         out
     }
 }

@@ -127,6 +127,16 @@ impl Interval {
         Interval { lo, hi }
     }
 
+    /// [`Interval::add`] with each end rounded outward to `prec` bits where
+    /// the exact sum would cost more (see [`Num::add_round`]).
+    #[must_use]
+    pub fn add_round(&self, o: &Interval, prec: u32) -> Interval {
+        Interval {
+            lo: self.lo.add_round(&o.lo, prec, Down),
+            hi: self.hi.add_round(&o.hi, prec, Up),
+        }
+    }
+
     /// [`Interval::mul`] with each end rounded outward to `prec` bits
     /// where the exact product would cost more (see [`Num::mul_round`]).
     ///

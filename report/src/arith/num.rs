@@ -533,6 +533,11 @@ impl Num {
         }
         // q = round(m · 2^s / 5^k) with about prec + 2 bits, then shift.
         let k = e5.unsigned_abs();
+        if let (M::S(x), true) = (&m, k < 28 && prec <= 124) {
+            if let Some(r) = round_out_small(*x, e2, k, prec, dir) {
+                return r;
+            }
+        }
         let den = pow5_big(k);
         let s = i64::from(prec) + 2 + den.bit_len() as i64 - self.mantissa_bits() as i64;
         let (num, den) = if s >= 0 {
@@ -563,7 +568,9 @@ impl Num {
     /// ```
     #[must_use]
     pub fn mul_round(&self, o: &Num, prec: u32, dir: Direction) -> Num {
-        if prec == u32::MAX {
+        // A unit (±2^a·5^b: a shift, a negation, a power of ten) adds no
+        // significant bits: its product is kept exact.
+        if prec == u32::MAX || self.is_unit() || o.is_unit() {
             return self * o;
         }
         if let (
@@ -608,6 +615,50 @@ impl Num {
             p.round_out(prec, dir)
         } else {
             p
+        }
+    }
+
+    /// `self + o` rounded toward `dir` to at most `prec` significant bits
+    /// when the exact sum would cost more than `prec` bits (exact
+    /// otherwise). Dyadic operands on the fast path add in 256 bits without
+    /// allocating.
+    ///
+    /// ```
+    /// use qbound_report::arith::{Direction, Num};
+    /// let big = Num::pow2(100);
+    /// let tiny = Num::pow2(-100);
+    /// let up = big.add_round(&tiny, 64, Direction::Up);
+    /// let down = big.add_round(&tiny, 64, Direction::Down);
+    /// assert_eq!(down, big);
+    /// assert!(up > &big + &tiny);
+    /// ```
+    #[must_use]
+    pub fn add_round(&self, o: &Num, prec: u32, dir: Direction) -> Num {
+        if prec == u32::MAX {
+            return self + o;
+        }
+        if let (
+            Repr::Small {
+                m: ma,
+                e2: a2,
+                e5: 0,
+            },
+            Repr::Small {
+                m: mb,
+                e2: b2,
+                e5: 0,
+            },
+        ) = (&self.0, &o.0)
+        {
+            if let Some(r) = add_round_small(*ma, *a2, *mb, *b2, prec, dir) {
+                return r;
+            }
+        }
+        let r = self + o;
+        if r.cost_bits() > u64::from(prec) {
+            r.round_out(prec, dir)
+        } else {
+            r
         }
     }
 
@@ -687,20 +738,11 @@ impl Num {
         if e5 == 0 {
             return scale2(mf, e2 + shift);
         }
-        // 5^e5 = 2^(e5·log2 5) split as an exact-ish power of 5 in pieces.
-        let mut v = scale2(mf, e2 + shift);
-        let mut k = e5;
-        while k < 0 {
-            let step = k.max(-20);
-            v /= 5f64.powi(-step);
-            k -= step;
-            if v == 0.0 {
-                // Underflowed in pieces: redo in the log domain.
-                let l = mf.abs().log2() + (e2 + shift) as f64 + f64::from(e5) * 5f64.log2();
-                return mf.signum() * l.exp2();
-            }
-        }
-        v
+        // 5^e5 as a power of two: split the exponent into an integer part
+        // (applied exactly) and a fraction (accurate to about 1e-15).
+        let l = f64::from(e5) * 5f64.log2();
+        let n = l.floor();
+        scale2(mf * (l - n).exp2(), e2 + shift + n as i64)
     }
 
     /// The exact value as `p/q` in lowest terms (or an integer): the form
@@ -803,6 +845,115 @@ fn mul_u128(a: u128, b: u128) -> (u128, u128) {
     let lo = (p00 & u128::from(u64::MAX)) | (mid << 64);
     let hi = p11 + (p01 >> 64) + (p10 >> 64) + (mid >> 64);
     (hi, lo)
+}
+
+/// `m·2^e2 / 5^k` rounded toward `dir` to `prec` bits (`5^k < 2^64`,
+/// `prec <= 124`), dividing a 256-bit numerator by a word; `None` when the
+/// numerator would not fit.
+fn round_out_small(m: i128, e2: i64, k: u32, prec: u32, dir: Direction) -> Option<Num> {
+    let d = POW5[k as usize] as u64;
+    let dbits = 64 - d.leading_zeros();
+    let mbits = bits_i128(m);
+    let neg = m < 0;
+    let mag = m.unsigned_abs();
+    // Shift so that the quotient has prec + 2 bits.
+    let s = i64::from(prec) + 2 + i64::from(dbits) - i64::from(mbits);
+    let (hi, lo, lost) = if s >= 0 {
+        if i64::from(mbits) + s > 255 {
+            return None;
+        }
+        let s = s as u32;
+        let (hi, lo) = if s == 0 {
+            (0, mag)
+        } else if s >= 128 {
+            (mag << (s - 128), 0)
+        } else {
+            (mag >> (128 - s), mag << s)
+        };
+        (hi, lo, false)
+    } else {
+        let t = s.unsigned_abs() as u32;
+        if t >= 128 {
+            return None;
+        }
+        (0, mag >> t, mag & ((1u128 << t) - 1) != 0)
+    };
+    // Long division by the word d, 64 bits at a time.
+    let limbs = [(hi >> 64) as u64, hi as u64, (lo >> 64) as u64, lo as u64];
+    let mut rem: u128 = 0;
+    let mut q: [u64; 4] = [0; 4];
+    for (i, &l) in limbs.iter().enumerate() {
+        let cur = (rem << 64) | u128::from(l);
+        q[i] = (cur / u128::from(d)) as u64;
+        rem = cur % u128::from(d);
+    }
+    if q[0] != 0 || q[1] != 0 {
+        return None;
+    }
+    let mut qv = (u128::from(q[2]) << 64) | u128::from(q[3]);
+    let inexact = lost || rem != 0;
+    let away = matches!((neg, dir), (false, Direction::Up) | (true, Direction::Down));
+    if inexact && away {
+        qv += 1;
+    }
+    let qi = i128::try_from(qv).ok()?;
+    Some(Num::from_small(if neg { -qi } else { qi }, e2 - s, 0).round_out(prec, dir))
+}
+
+/// `ma·2^a2 + mb·2^b2` rounded toward `dir` to `prec` bits, in 256-bit
+/// arithmetic; `None` when the exponents are too far apart for that.
+fn add_round_small(ma: i128, a2: i64, mb: i128, b2: i64, prec: u32, dir: Direction) -> Option<Num> {
+    if ma == 0 || mb == 0 {
+        let (m, e) = if ma == 0 { (mb, b2) } else { (ma, a2) };
+        return Some(Num::from_small(m, e, 0).round_out(prec, dir));
+    }
+    let e = a2.min(b2);
+    let (da, db) = (a2 - e, b2 - e);
+    let (ba, bb) = (i64::from(bits_i128(ma)), i64::from(bits_i128(mb)));
+    if ba + da > 254 || bb + db > 254 {
+        return None;
+    }
+    let shl = |m: u128, d: i64| -> (u128, u128) {
+        let d = d as u32;
+        if d == 0 {
+            (0, m)
+        } else if d >= 128 {
+            (m << (d - 128), 0)
+        } else {
+            (m >> (128 - d), m << d)
+        }
+    };
+    let (xa, ya) = shl(ma.unsigned_abs(), da);
+    let (xb, yb) = shl(mb.unsigned_abs(), db);
+    let (neg, hi, lo) = if (ma < 0) == (mb < 0) {
+        let (lo, c) = ya.overflowing_add(yb);
+        (ma < 0, xa + xb + u128::from(c), lo)
+    } else if (xa, ya) >= (xb, yb) {
+        let (lo, b) = ya.overflowing_sub(yb);
+        (ma < 0, xa - xb - u128::from(b), lo)
+    } else {
+        let (lo, b) = yb.overflowing_sub(ya);
+        (mb < 0, xb - xa - u128::from(b), lo)
+    };
+    if hi == 0 && lo == 0 {
+        return Some(Num::ZERO);
+    }
+    let bits = if hi == 0 {
+        128 - lo.leading_zeros()
+    } else {
+        256 - hi.leading_zeros()
+    };
+    let prec = prec.clamp(1, 126);
+    if bits <= prec {
+        let m = lo as i128;
+        return Some(Num::from_small(if neg { -m } else { m }, e, 0));
+    }
+    let s = bits - prec;
+    let (q, inexact) = shr_u256(hi, lo, s);
+    let away = matches!((neg, dir), (false, Direction::Up) | (true, Direction::Down));
+    let q = if inexact && away { q + 1 } else { q };
+    let m = q as i128;
+    Some(Num::from_small(if neg { -m } else { m }, e + i64::from(s), 0))
 }
 
 /// `(hi, lo) >> s` for `0 < s < 256` whose result fits a `u128`, and

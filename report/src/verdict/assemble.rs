@@ -65,22 +65,30 @@ fn detail(path: &Datapath, id: usize) -> String {
 }
 
 fn overflow_report(n: &NodeAnalysis) -> OverflowReport {
-    let o = &n.overflow;
+    let Some(o) = n.overflow.as_deref() else {
+        return OverflowReport {
+            can_overflow: false,
+            mode: None,
+            severity: Severity::None,
+            largest_saturation_error: None,
+            unclamped_range: None,
+            detail: "exact operation: cannot overflow".to_owned(),
+        };
+    };
     let severity = match (o.can_overflow, o.mode) {
-        (false, _) | (true, None) => Severity::None,
-        (true, Some(Overflow::Wrap | Overflow::Panic)) => Severity::Error,
-        (true, Some(Overflow::Saturate | Overflow::SaturateSymmetric)) => Severity::Warning,
+        (false, _) => Severity::None,
+        (true, Overflow::Wrap | Overflow::Panic) => Severity::Error,
+        (true, Overflow::Saturate | Overflow::SaturateSymmetric) => Severity::Warning,
     };
     let detail = match (o.can_overflow, o.mode) {
-        (_, None) => "exact operation: cannot overflow".to_owned(),
-        (false, Some(_)) => "the value always fits".to_owned(),
-        (true, Some(Overflow::Wrap)) => {
+        (false, _) => "the value always fits".to_owned(),
+        (true, Overflow::Wrap) => {
             "can overflow and wrap around: the result is then far from the ideal value".to_owned()
         }
-        (true, Some(Overflow::Panic)) => {
+        (true, Overflow::Panic) => {
             "can overflow: the rescale panics for some inputs in the ranges".to_owned()
         }
-        (true, Some(_)) => format!(
+        (true, _) => format!(
             "can saturate; the largest saturation error is {}",
             o.saturation_error
                 .as_ref()
@@ -89,7 +97,7 @@ fn overflow_report(n: &NodeAnalysis) -> OverflowReport {
     };
     OverflowReport {
         can_overflow: o.can_overflow,
-        mode: o.mode.map(|m| m.name().to_owned()),
+        mode: Some(o.mode.name().to_owned()),
         severity,
         largest_saturation_error: o.saturation_error.as_ref().map(Exact::new),
         unclamped_range: o.unclamped.as_ref().map(range),
@@ -147,7 +155,7 @@ pub fn assemble(path: &Datapath, a: &Analysis, sim: Option<&Simulation>) -> Repo
             id: i,
             node: s.node.0,
             kind: s.kind,
-            label: s.label.clone(),
+            label: s.label(path),
             interval: range(&s.eps),
             mean: s.mean,
             std_dev: s.var.sqrt(),
@@ -206,7 +214,7 @@ pub fn assemble(path: &Datapath, a: &Analysis, sim: Option<&Simulation>) -> Repo
                 sqnr_db: sqnr(signal, noise),
                 measured_sqnr_db: m.as_ref().and_then(|m| sqnr(m.signal_power, m.rms * m.rms)),
                 budget,
-                contributions: contributions(a, n),
+                contributions: contributions(path, a, n),
                 measured: m,
                 histogram: sim.map(|s| s.histograms[oi].clone()),
             }
@@ -222,9 +230,11 @@ pub fn assemble(path: &Datapath, a: &Analysis, sim: Option<&Simulation>) -> Repo
     }
 }
 
-fn contributions(a: &Analysis, n: &NodeAnalysis) -> Vec<Contribution> {
-    let mut parts: Vec<(Option<usize>, Interval, f64)> = n
-        .form
+fn contributions(path: &Datapath, a: &Analysis, n: &NodeAnalysis) -> Vec<Contribution> {
+    let Some(form) = &n.form else {
+        return Vec::new();
+    };
+    let mut parts: Vec<(Option<usize>, Interval, f64)> = form
         .terms
         .iter()
         .map(|t| {
@@ -234,8 +244,8 @@ fn contributions(a: &Analysis, n: &NodeAnalysis) -> Vec<Contribution> {
             (Some(t.src), term_interval(t, &a.sources), v)
         })
         .collect();
-    if !n.form.rem.is_zero() {
-        parts.push((None, n.form.rem.clone(), n.form.rem_var));
+    if !form.rem.is_zero() {
+        parts.push((None, form.rem.clone(), form.rem_var));
     }
     let total_abs: f64 = parts.iter().map(|p| p.1.max_abs().to_f64()).sum();
     let total_var: f64 = parts.iter().map(|p| p.2).sum();
@@ -247,7 +257,7 @@ fn contributions(a: &Analysis, n: &NodeAnalysis) -> Vec<Contribution> {
                 source: src,
                 label: src.map_or_else(
                     || "remainder (products of errors, folded small terms)".to_owned(),
-                    |s| a.sources[s].label.clone(),
+                    |s| a.sources[s].label(path),
                 ),
                 kind: src.map(|s| a.sources[s].kind),
                 share_of_bound: if total_abs > 0.0 {

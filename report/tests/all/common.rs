@@ -51,3 +51,13 @@ impl ExactExt for Exact {
         self.exact.parse().ok()
     }
 }
+
+/// A proptest configuration with `default` cases, or `PROPTEST_CASES` when
+/// set (for long runs).
+pub fn cases(default: u32) -> proptest::test_runner::Config {
+    let n = std::env::var("PROPTEST_CASES")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(default);
+    proptest::test_runner::Config::with_cases(n)
+}

@@ -10,7 +10,7 @@ use qbound::{Format, Overflow, Rounding};
 use qbound_report::{Builder, InputKind, NodeId, Num, SimulationOptions, analyze, simulate};
 
 #[derive(Clone, Debug)]
-enum Step {
+pub enum Step {
     Add(usize, usize),
     Sub(usize, usize),
     Mul(usize, usize),
@@ -19,7 +19,7 @@ enum Step {
     Rescale(usize, bool, u32, i32, usize, usize),
 }
 
-fn format() -> impl Strategy<Value = (bool, u32, u32)> {
+pub fn format() -> impl Strategy<Value = (bool, u32, u32)> {
     prop_oneof![
         (any::<bool>(), 0u32..6, 0u32..12),
         Just((true, 0, 0)),   // 1 bit
@@ -30,7 +30,7 @@ fn format() -> impl Strategy<Value = (bool, u32, u32)> {
     .prop_filter("non-empty", |&(s, i, f)| s || i + f > 0)
 }
 
-fn step() -> impl Strategy<Value = Step> {
+pub fn step() -> impl Strategy<Value = Step> {
     prop_oneof![
         (any::<usize>(), any::<usize>()).prop_map(|(a, b)| Step::Add(a, b)),
         (any::<usize>(), any::<usize>()).prop_map(|(a, b)| Step::Sub(a, b)),
@@ -49,10 +49,28 @@ fn step() -> impl Strategy<Value = Step> {
     ]
 }
 
-/// An input: format, range as fractions of the format range, kind.
-type InputSpec = ((bool, u32, u32), (u16, u16), Option<usize>);
+/// The random datapath generator: inputs, constants, steps, a seed.
+#[allow(clippy::type_complexity)]
+pub fn strategy() -> impl Strategy<Value = (Vec<InputSpec>, Vec<(i32, (bool, u32, u32))>, Vec<Step>, u64)> {
+    (
+        prop::collection::vec(
+            (
+                format(),
+                (any::<u16>(), any::<u16>()),
+                prop::option::of(0usize..9),
+            ),
+            1..4,
+        ),
+        prop::collection::vec((-3000i32..3000, format()), 0..3),
+        prop::collection::vec(step(), 1..10),
+        any::<u64>(),
+    )
+}
 
-fn build(
+/// An input: format, range as fractions of the format range, kind.
+pub type InputSpec = ((bool, u32, u32), (u16, u16), Option<usize>);
+
+pub fn build(
     inputs: &[InputSpec],
     consts: &[(i32, (bool, u32, u32))],
     steps: &[Step],
@@ -119,20 +137,9 @@ fn simulation_never_exceeds_the_bound() {
     let loose = Mutex::new(0u32);
     let simulated = Mutex::new(0u32);
     let ratios = Mutex::new(Vec::<f64>::new());
-    let strategy = (
-        prop::collection::vec(
-            (
-                format(),
-                (any::<u16>(), any::<u16>()),
-                prop::option::of(0usize..9),
-            ),
-            1..4,
-        ),
-        prop::collection::vec((-3000i32..3000, format()), 0..3),
-        prop::collection::vec(step(), 1..10),
-        any::<u64>(),
-    );
+    let strategy = strategy();
     let result = runner.run(&strategy, |(inputs, consts, steps, seed)| {
+
         let Some(path) = build(&inputs, &consts, &steps) else {
             return Ok(());
         };
