@@ -187,7 +187,7 @@ mod width;
 pub use accumulate::{AccumulateError, rescale_slice};
 pub use convert::{FloatError, PrimitiveInt};
 pub use format::{Format, FormatError, MAX_WIDTH};
-pub use functions::FunctionError;
+pub use functions::{FunctionError, QFunctions};
 pub use overflow::{Overflow, RangeError, Side};
 pub use rounding::Rounding;
 pub use storage::{Storage, Wide};

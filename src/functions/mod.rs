@@ -94,6 +94,7 @@ mod root;
 mod tables;
 mod trig;
 mod typed;
+pub use typed::QFunctions;
 
 use core::cmp::Ordering;
 use core::fmt;

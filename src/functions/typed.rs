@@ -166,10 +166,7 @@ macro_rules! typed_fns {
             #[track_caller]
             #[must_use]
             pub fn $f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding, overflow: Overflow) -> T {
-                match $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding) {
-                    Ok(f) => T::wrapping_from_bits(f.resolve(T::FORMAT, overflow)),
-                    Err(e) => domain_panic(e),
-                }
+                <Self as QFunctions>::$f::<T>(self, $($arg,)? rounding, overflow)
             }
 
             /// Like the form without `try_`, with a [`FunctionError`]
@@ -182,8 +179,7 @@ macro_rules! typed_fns {
             /// ```
             #[inline]
             pub fn $try_f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding) -> Result<T, FunctionError> {
-                let f = $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding)?;
-                Ok(T::wrapping_from_bits(f.checked(T::FORMAT)?))
+                <Self as QFunctions>::$try_f::<T>(self, $($arg,)? rounding)
             }
         )*}
     };
@@ -191,3 +187,67 @@ macro_rules! typed_fns {
 
 typed_fns!(Sq, SignedLayout);
 typed_fns!(Uq, UnsignedLayout);
+
+/// The typed function body: the run-time kernel with the formats as
+/// constants.
+macro_rules! trait_fns {
+    ($( fn $f:ident / $try_f:ident ( $($arg:ident)? ) => $m:ident :: $k:ident; )*) => {
+        /// Division and the elementary functions for code generic over
+        /// formats: every [`QType`] has them (see [`Sq::div`](crate::Sq::div)
+        /// and the following methods for each one's contract and examples).
+        ///
+        /// ```
+        /// use qbound::{QFunctions, QType, Q, UQ, Rounding, Overflow};
+        /// // A sine table for any phase and output format.
+        /// fn table<P: QType, T: QType, const N: usize>(step: P) -> [T; N] {
+        ///     let mut phase = P::ZERO;
+        ///     core::array::from_fn(|_| {
+        ///         let s = phase.sin_turns(Rounding::NearestTiesEven, Overflow::Saturate);
+        ///         phase = phase.wrapping_add(step);
+        ///         s
+        ///     })
+        /// }
+        /// let t: [Q<0, 15>; 4] = table(UQ::<0, 8>::from_bits(64)); // quarter turns
+        /// assert_eq!(t.map(|s| s.to_bits()), [0, 32767, 0, -32768]);
+        /// ```
+        pub trait QFunctions: QType {$(
+            /// See the method of the same name on [`Sq`](crate::Sq).
+            ///
+            /// # Panics
+            /// On a domain error, or with [`Overflow::Panic`] if the result
+            /// does not fit.
+            #[inline]
+            #[track_caller]
+            fn $f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding, overflow: Overflow) -> T {
+                match $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding) {
+                    Ok(f) => T::from_bits_in_range(f.resolve(T::FORMAT, overflow)),
+                    Err(e) => domain_panic(e),
+                }
+            }
+
+            /// Like the form without `try_`, with a [`FunctionError`]
+            /// instead of a panic or an overflow mode.
+            #[inline]
+            fn $try_f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding) -> Result<T, FunctionError> {
+                let f = $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding)?;
+                Ok(T::from_bits_in_range(f.checked(T::FORMAT)?))
+            }
+        )*}
+    };
+}
+
+trait_fns! {
+    fn div / try_div (rhs) => divide::div;
+    fn recip / try_recip () => divide::recip;
+    fn sqrt / try_sqrt () => root::sqrt;
+    fn sin_turns / try_sin_turns () => trig::sin_turns;
+    fn cos_turns / try_cos_turns () => trig::cos_turns;
+    fn sin / try_sin () => trig::sin_radians;
+    fn cos / try_cos () => trig::cos_radians;
+    fn atan2_turns / try_atan2_turns (x) => trig::atan2_turns;
+    fn atan2 / try_atan2 (x) => trig::atan2_radians;
+    fn exp2 / try_exp2 () => explog::exp2;
+    fn log2 / try_log2 () => explog::log2;
+}
+
+impl<T: QType> QFunctions for T {}
