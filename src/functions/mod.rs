@@ -89,12 +89,19 @@
 
 mod divide;
 mod explog;
+#[cfg(feature = "function-tables")]
+mod fast;
+#[cfg(feature = "function-tables")]
+#[rustfmt::skip]
+mod fast_tables;
 mod nat;
 mod root;
 mod tables;
 mod trig;
 mod typed;
 pub use typed::QFunctions;
+#[doc(hidden)]
+pub use paths as __paths;
 
 use core::cmp::Ordering;
 use core::fmt;
@@ -528,6 +535,70 @@ fn ziv<D: Storage>(
 }
 
 use crate::value::with_storage;
+
+/// Test access to the two kernels of the functions that have a fast path,
+/// so the tests can check each against MPFR on its own. Not a public API.
+#[doc(hidden)]
+pub mod paths {
+    use super::{FunctionError, explog, trig};
+    use crate::format::Format;
+    use crate::rounding::Rounding;
+    use crate::value::{QValue, with_storage};
+
+    /// A function with a fast path.
+    #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+    pub enum Kernel {
+        /// `sin_turns`.
+        SinTurns,
+        /// `cos_turns`.
+        CosTurns,
+        /// `atan2_turns` (`a` the ordinate, `b` the abscissa).
+        Atan2Turns,
+        /// `exp2`.
+        Exp2,
+        /// `log2`.
+        Log2,
+    }
+
+    /// The fast path's result, or `None` where it leaves the call to the
+    /// 128-bit kernel (always `None` without the `function-tables`
+    /// feature).
+    pub fn fast(k: Kernel, a: QValue, b: QValue, dst: Format, rnd: Rounding) -> Option<QValue> {
+        #[cfg(feature = "function-tables")]
+        {
+            use super::fast;
+            with_storage!(dst, D => {
+                let f = match k {
+                    Kernel::SinTurns => fast::sincos_turns::<D>(trig::phase_of_turns(a), dst, rnd, true),
+                    Kernel::CosTurns => fast::sincos_turns::<D>(trig::phase_of_turns(a), dst, rnd, false),
+                    Kernel::Atan2Turns => fast::atan2_turns::<D>(a, b, dst, rnd),
+                    Kernel::Exp2 => fast::exp2::<D>(a, dst, rnd),
+                    Kernel::Log2 => fast::log2::<D>(a, dst, rnd),
+                };
+                f.map(|f| QValue::finish::<D>(f, dst, crate::Overflow::Wrap))
+            })
+        }
+        #[cfg(not(feature = "function-tables"))]
+        {
+            let _ = (k, a, b, dst, rnd);
+            None
+        }
+    }
+
+    /// The 128-bit kernel's result (with wrap-around on overflow).
+    pub fn slow(k: Kernel, a: QValue, b: QValue, dst: Format, rnd: Rounding) -> Result<QValue, FunctionError> {
+        with_storage!(dst, D => {
+            let f = match k {
+                Kernel::SinTurns => Ok(trig::turns_slow::<D>(trig::phase_of_turns(a), dst, rnd, true)),
+                Kernel::CosTurns => Ok(trig::turns_slow::<D>(trig::phase_of_turns(a), dst, rnd, false)),
+                Kernel::Atan2Turns => trig::atan2_turns_slow::<D>(a, b, dst, rnd),
+                Kernel::Exp2 => explog::exp2_slow::<D>(a, dst, rnd),
+                Kernel::Log2 => explog::log2_slow::<D>(a, dst, rnd),
+            };
+            f.map(|f| QValue::finish::<D>(f, dst, crate::Overflow::Wrap))
+        })
+    }
+}
 
 /// The run-time forms: one macro arm per function shape.
 macro_rules! value_fns {

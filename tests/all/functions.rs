@@ -438,6 +438,11 @@ fn tables_match_generator() {
         committed == functables::generate(),
         "src/functions/tables.rs is stale: run `cargo run -p qbound --example gen_function_tables`"
     );
+    let committed = include_str!("../../src/functions/fast_tables.rs");
+    assert!(
+        committed == functables::generate_fast(),
+        "src/functions/fast_tables.rs is stale: run `cargo run -p qbound --example gen_function_tables`"
+    );
 }
 
 // ---------------------------------------------------------------------------
