@@ -89,7 +89,7 @@ pub fn generate_fast() -> String {
          //! rounded to the nearest integer. Do not edit: the test\n\
          //! `functions::tables_match_generator` regenerates and compares them.\n\n",
     );
-    let mut table = |s: &mut String, doc: &str, name: &str, ty: &str, vals: Vec<Integer>| {
+    let table = |s: &mut String, doc: &str, name: &str, ty: &str, vals: Vec<Integer>| {
         writeln!(s, "/// {doc}").unwrap();
         writeln!(s, "pub(crate) const {name}: [{ty}; {}] = [", vals.len()).unwrap();
         for v in vals {
