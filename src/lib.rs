@@ -187,9 +187,9 @@ mod width;
 pub use accumulate::{AccumulateError, rescale_slice};
 pub use convert::{FloatError, PrimitiveInt};
 pub use format::{Format, FormatError, MAX_WIDTH};
-pub use functions::{FunctionError, QFunctions};
 #[doc(hidden)]
 pub use functions::__paths;
+pub use functions::{FunctionError, QFunctions};
 pub use overflow::{Overflow, RangeError, Side};
 pub use rounding::Rounding;
 pub use storage::{Storage, Wide};

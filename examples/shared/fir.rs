@@ -1,3 +1,4 @@
+#![allow(dead_code)]
 //! A FIR filter written once for any sample, coefficient and accumulator
 //! format, through the [`QType`] trait. Shared by the `generic_fir` and
 //! `mode_costs` examples.

@@ -31,7 +31,13 @@ pub(crate) const MAX_FRAC: u32 = 52;
 /// The rounding of `a·2^-frac` if every value within `err` of it rounds
 /// the same way.
 #[inline(always)]
-fn decide<D: Storage>(a: i128, err: i128, frac: u32, dst: Format, rnd: Rounding) -> Option<Fitted<D>> {
+fn decide<D: Storage>(
+    a: i128,
+    err: i128,
+    frac: u32,
+    dst: Format,
+    rnd: Rounding,
+) -> Option<Fitted<D>> {
     let lo = kernel::rescale::<i128, D>(a - err, frac, dst, rnd);
     let hi = kernel::rescale::<i128, D>(a + err, frac, dst, rnd);
     (lo.wrapped == hi.wrapped && lo.side == hi.side).then_some(lo)
@@ -186,7 +192,10 @@ pub(crate) fn exp2<D: Storage>(x: QValue, dst: Format, rnd: Rounding) -> Option<
     let (f, lost) = if fa <= 64 {
         ((fbits << (64 - fa)) as u64, false)
     } else {
-        ((fbits >> (fa - 64)) as u64, fbits & ((1 << (fa - 64)) - 1) != 0)
+        (
+            (fbits >> (fa - 64)) as u64,
+            fbits & ((1 << (fa - 64)) - 1) != 0,
+        )
     };
     if f == 0 && !lost {
         // An exact power of two: the slow path returns it at once.
@@ -329,7 +338,11 @@ pub(crate) fn atan2_turns<D: Storage>(
     let (big, small) = if swapped { (ys, xs) } else { (xs, ys) };
     let len = 128 - big.leading_zeros();
     let (a, b, lost) = if len <= 64 {
-        ((big << (64 - len)) as u64, (small << (64 - len)) as u64, false)
+        (
+            (big << (64 - len)) as u64,
+            (small << (64 - len)) as u64,
+            false,
+        )
     } else {
         let s = len - 64;
         let mask = (1u128 << s) - 1;

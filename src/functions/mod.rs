@@ -99,9 +99,9 @@ mod root;
 mod tables;
 mod trig;
 mod typed;
-pub use typed::QFunctions;
 #[doc(hidden)]
 pub use paths as __paths;
+pub use typed::QFunctions;
 
 use core::cmp::Ordering;
 use core::fmt;
@@ -586,7 +586,13 @@ pub mod paths {
     }
 
     /// The 128-bit kernel's result (with wrap-around on overflow).
-    pub fn slow(k: Kernel, a: QValue, b: QValue, dst: Format, rnd: Rounding) -> Result<QValue, FunctionError> {
+    pub fn slow(
+        k: Kernel,
+        a: QValue,
+        b: QValue,
+        dst: Format,
+        rnd: Rounding,
+    ) -> Result<QValue, FunctionError> {
         with_storage!(dst, D => {
             let f = match k {
                 Kernel::SinTurns => Ok(trig::turns_slow::<D>(trig::phase_of_turns(a), dst, rnd, true)),

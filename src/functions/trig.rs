@@ -133,7 +133,12 @@ fn turns_fitted<D: Storage>(x: QValue, dst: Format, rnd: Rounding, want_sin: boo
 }
 
 /// The 128-bit kernel of [`turns_fitted`].
-pub(crate) fn turns_slow<D: Storage>(p: u128, dst: Format, rnd: Rounding, want_sin: bool) -> Fitted<D> {
+pub(crate) fn turns_slow<D: Storage>(
+    p: u128,
+    dst: Format,
+    rnd: Rounding,
+    want_sin: bool,
+) -> Fitted<D> {
     let first = first_iters(dst.frac_bits() as i64, rnd);
     ziv(dst, rnd, first, |n| {
         let (c, s) = sincos(p, 0, n);

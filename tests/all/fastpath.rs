@@ -83,8 +83,12 @@ fn all_values(f: Format) -> impl Iterator<Item = QValue> {
 /// outputs; the fast path must decide most of them.
 #[test]
 fn fast_paths_exhaustive_small_formats() {
-    let ins = ["UQ0.8", "Q0.7", "Q3.4", "UQ4.4", "Q0.0", "UQ1.0", "UQ0.1", "Q2.9"];
-    let outs = ["Q0.7", "UQ0.8", "Q1.14", "Q1.30", "UQ0.32", "UQ8.8", "Q3.12", "Q0.0", "UQ1.0"];
+    let ins = [
+        "UQ0.8", "Q0.7", "Q3.4", "UQ4.4", "Q0.0", "UQ1.0", "UQ0.1", "Q2.9",
+    ];
+    let outs = [
+        "Q0.7", "UQ0.8", "Q1.14", "Q1.30", "UQ0.32", "UQ8.8", "Q3.12", "Q0.0", "UQ1.0",
+    ];
     let modes = modes();
     let one = QValue::from_i128_bits(fmt("Q1.6"), 64).unwrap();
     let other = QValue::from_i128_bits(fmt("Q1.6"), -45).unwrap();
@@ -158,9 +162,9 @@ fn out_grid() -> Vec<Format> {
 /// fraction bits (the fast paths cut them, with a wider error bound).
 fn in_grid() -> Vec<Format> {
     [
-        "UQ0.1", "Q0.0", "UQ1.0", "Q0.7", "UQ0.16", "Q3.12", "UQ0.32", "Q4.27", "Q15.16", "UQ16.16",
-        "Q0.31", "UQ0.64", "Q5.58", "Q31.32", "UQ64.0", "Q0.127", "UQ0.128", "Q63.64", "UQ128.0",
-        "Q20.45", "UQ50.51", "Q9.30", "UQ5.13",
+        "UQ0.1", "Q0.0", "UQ1.0", "Q0.7", "UQ0.16", "Q3.12", "UQ0.32", "Q4.27", "Q15.16",
+        "UQ16.16", "Q0.31", "UQ0.64", "Q5.58", "Q31.32", "UQ64.0", "Q0.127", "UQ0.128", "Q63.64",
+        "UQ128.0", "Q20.45", "UQ50.51", "Q9.30", "UQ5.13",
     ]
     .iter()
     .map(|s| fmt(s))

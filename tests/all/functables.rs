@@ -107,14 +107,18 @@ pub fn generate_fast() -> String {
         "`sin(2 pi i / 1024)` in units of 2^-63, `i = 0..=128`.",
         "SIN_1024",
         "u64",
-        (0..=128).map(|i| nearest(angle(i).sin() << 63u32)).collect(),
+        (0..=128)
+            .map(|i| nearest(angle(i).sin() << 63u32))
+            .collect(),
     );
     table(
         &mut s,
         "`cos(2 pi i / 1024)` in units of 2^-63, `i = 0..=128`.",
         "COS_1024",
         "u64",
-        (0..=128).map(|i| nearest(angle(i).cos() << 63u32)).collect(),
+        (0..=128)
+            .map(|i| nearest(angle(i).cos() << 63u32))
+            .collect(),
     );
     table(
         &mut s,
@@ -170,17 +174,39 @@ pub fn generate_fast() -> String {
         "`(i / 128) / (1 + (i / 128)^2)` in units of 2^-63, `i = 0..=128`.",
         "ATAN_TC1_128",
         "u64",
-        (0..=128).map(|i| nearest((c1(i) * t(i)) << 63u32)).collect(),
+        (0..=128)
+            .map(|i| nearest((c1(i) * t(i)) << 63u32))
+            .collect(),
     );
     let consts: [(&str, &str, Float, u32); 4] = [
         ("TWO_PI_Q61", "`2 pi` in units of 2^-61.", two_pi(), 61),
-        ("INV_TWO_PI_Q64", "`1 / (2 pi)` in units of 2^-64.", one() / two_pi(), 64),
-        ("LN2_Q64", "`ln 2` in units of 2^-64.", Float::with_val(PREC, 2).ln(), 64),
-        ("LOG2_E_Q62", "`log2(e)` in units of 2^-62.", one() / Float::with_val(PREC, 2).ln(), 62),
+        (
+            "INV_TWO_PI_Q64",
+            "`1 / (2 pi)` in units of 2^-64.",
+            one() / two_pi(),
+            64,
+        ),
+        (
+            "LN2_Q64",
+            "`ln 2` in units of 2^-64.",
+            Float::with_val(PREC, 2).ln(),
+            64,
+        ),
+        (
+            "LOG2_E_Q62",
+            "`log2(e)` in units of 2^-62.",
+            one() / Float::with_val(PREC, 2).ln(),
+            62,
+        ),
     ];
     for (name, doc, v, sh) in consts {
         writeln!(s, "/// {doc}").unwrap();
-        writeln!(s, "pub(crate) const {name}: u64 = {:#018x};", nearest(v << sh)).unwrap();
+        writeln!(
+            s,
+            "pub(crate) const {name}: u64 = {:#018x};",
+            nearest(v << sh)
+        )
+        .unwrap();
     }
     s
 }
