@@ -86,6 +86,13 @@
 //! runs. A minimax polynomial would be faster on a CPU with a fast
 //! multiplier, but needs a separate coefficient set per precision and a
 //! multiplication error analysis per format.
+//!
+//! With the feature `function-tables` (default), `sin_turns`, `cos_turns`,
+//! `atan2_turns`, `exp2` and `log2` first try a fast path on 64-bit
+//! integers (tables and short polynomials, `fast.rs`) for outputs with up
+//! to 52 fraction bits. It returns a result only when its proven error
+//! bound shows it is the correctly rounded one, so the results are the
+//! same with and without the feature; see `docs/functions.md`.
 
 mod divide;
 mod explog;
