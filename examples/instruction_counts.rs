@@ -17,7 +17,10 @@ const TAPS: usize = 64;
 
 /// The same invented operands as `benches/functions.rs` (32 bits) and
 /// `benches/dot.rs`.
-fn ops() -> Vec<(&'static str, Box<dyn Fn(u64)>)> {
+/// A named operation; the argument is the iteration number.
+type Op = (&'static str, Box<dyn Fn(u64)>);
+
+fn ops() -> Vec<Op> {
     let x = Q::<8, 23>::from_bits(19_293_798);
     let y = Q::<8, 23>::from_bits(-14_260_634);
     let u = UQ::<8, 24>::from_bits(6_207_570);

@@ -5,10 +5,7 @@
 //! falls back to must still meet its contract. Exhaustive over small
 //! formats, proptest over a grid with the edges.
 
-#[path = "funcref.rs"]
-mod funcref;
-
-use funcref::{Func, fmt, round_ref};
+use super::functions::funcref::{self, Func, fmt, round_ref};
 use proptest::prelude::*;
 use qbound::__paths::{self, Kernel};
 use qbound::{Format, QValue, Rounding};

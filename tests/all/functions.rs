@@ -3,7 +3,7 @@
 //! generated constant tables.
 
 #[path = "funcref.rs"]
-mod funcref;
+pub(crate) mod funcref;
 #[path = "functables.rs"]
 mod functables;
 
