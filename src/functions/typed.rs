@@ -10,9 +10,11 @@ use crate::overflow::Overflow;
 use crate::rounding::Rounding;
 use crate::typed::{QType, Sq, Uq};
 
-macro_rules! typed_fns {
-    ($name:ident, $layout:ident) => {
-        typed_fns! { @impl $name, $layout,
+/// The one list of the functions (with the inherent methods' docs): calls
+/// `$cb!` with the given leading tokens and the list.
+macro_rules! function_list {
+    ($cb:ident $($lead:tt)*) => {
+        $cb! { $($lead)*
             /// `self / rhs` correctly rounded into the format of `T` (any
             /// operand formats).
             ///
@@ -156,7 +158,11 @@ macro_rules! typed_fns {
             fn log2 / try_log2 () => explog::log2;
         }
     };
-    (@impl $name:ident, $layout:ident, $(
+}
+
+/// The inherent methods on `Sq` / `Uq`, forwarding to [`QFunctions`].
+macro_rules! typed_fns {
+    ($name:ident, $layout:ident, $(
         $(#[$doc:meta])*
         fn $f:ident / $try_f:ident ( $($arg:ident)? ) => $m:ident :: $k:ident;
     )*) => {
@@ -185,13 +191,16 @@ macro_rules! typed_fns {
     };
 }
 
-typed_fns!(Sq, SignedLayout);
-typed_fns!(Uq, UnsignedLayout);
+function_list!(typed_fns Sq, SignedLayout,);
+function_list!(typed_fns Uq, UnsignedLayout,);
 
 /// The typed function body: the run-time kernel with the formats as
 /// constants.
 macro_rules! trait_fns {
-    ($( fn $f:ident / $try_f:ident ( $($arg:ident)? ) => $m:ident :: $k:ident; )*) => {
+    ($(
+        $(#[$doc:meta])*
+        fn $f:ident / $try_f:ident ( $($arg:ident)? ) => $m:ident :: $k:ident;
+    )*) => {
         /// Division and the elementary functions for code generic over
         /// formats: every [`QType`] has them (see [`Sq::div`](crate::Sq::div)
         /// and the following methods for each one's contract and examples).
@@ -236,18 +245,6 @@ macro_rules! trait_fns {
     };
 }
 
-trait_fns! {
-    fn div / try_div (rhs) => divide::div;
-    fn recip / try_recip () => divide::recip;
-    fn sqrt / try_sqrt () => root::sqrt;
-    fn sin_turns / try_sin_turns () => trig::sin_turns;
-    fn cos_turns / try_cos_turns () => trig::cos_turns;
-    fn sin / try_sin () => trig::sin_radians;
-    fn cos / try_cos () => trig::cos_radians;
-    fn atan2_turns / try_atan2_turns (x) => trig::atan2_turns;
-    fn atan2 / try_atan2 (x) => trig::atan2_radians;
-    fn exp2 / try_exp2 () => explog::exp2;
-    fn log2 / try_log2 () => explog::log2;
-}
+function_list!(trait_fns);
 
 impl<T: QType> QFunctions for T {}
