@@ -39,7 +39,7 @@ use crate::layout::{SignedLayout, UnsignedLayout};
 use crate::overflow::{Overflow, RangeError, Side};
 use crate::rounding::Rounding;
 use crate::storage::{Storage, Wide};
-use crate::typed::{Sq, Uq};
+use crate::typed::{QType, Sq, Uq};
 use crate::value::{QValue, with_storage};
 
 // ---------------------------------------------------------------------------
@@ -456,6 +456,18 @@ pub(crate) fn int_from<W: crate::storage::WorkInt, N: PrimitiveInt>(
     kernel::rescale::<W, N::Store>(x, frac, N::FORMAT, rounding)
 }
 
+/// A float's exact value rounded into `f` (NaN and infinities are errors).
+#[inline]
+pub(crate) fn float_fit<D: Storage>(
+    shape: FloatShape,
+    bits: u64,
+    f: Format,
+    rounding: Rounding,
+) -> Result<Fitted<D>, FloatError> {
+    let s = scaled_from_float(shape, bits, f.frac_bits())?;
+    Ok(fitted(s, rounding, f))
+}
+
 // ---------------------------------------------------------------------------
 // The typed API.
 // ---------------------------------------------------------------------------
@@ -463,17 +475,6 @@ pub(crate) fn int_from<W: crate::storage::WorkInt, N: PrimitiveInt>(
 macro_rules! convert_common {
     ($name:ident, $layout:ident, $ex:literal) => {
         impl<I: $layout<F>, F: Unsigned> $name<I, F> {
-            #[inline(always)]
-            #[track_caller]
-            fn from_fitted(f: Fitted<<I as $layout<F>>::Storage>, overflow: Overflow) -> Self {
-                Self::from_bits_unchecked(f.resolve(Self::FORMAT, overflow))
-            }
-
-            #[inline(always)]
-            fn from_fitted_checked(f: Fitted<<I as $layout<F>>::Storage>) -> Result<Self, RangeError> {
-                f.checked(Self::FORMAT).map(Self::from_bits_unchecked)
-            }
-
             /// The integer `n` in this format. Integers need no rounding;
             /// `overflow` says what happens when `n` lies outside the range.
             ///
@@ -490,7 +491,7 @@ macro_rules! convert_common {
             #[track_caller]
             #[must_use]
             pub fn from_int<N: PrimitiveInt>(n: N, overflow: Overflow) -> Self {
-                Self::from_fitted(int_into(n, Self::FORMAT), overflow)
+                <Self as QType>::from_int::<N>(n, overflow)
             }
 
             /// The integer `n` in this format, or an error that says on which
@@ -505,7 +506,7 @@ macro_rules! convert_common {
             /// ```
             #[inline]
             pub fn try_from_int<N: PrimitiveInt>(n: N) -> Result<Self, RangeError> {
-                Self::from_fitted_checked(int_into(n, Self::FORMAT))
+                <Self as QType>::try_from_int::<N>(n)
             }
 
             /// The integer `n` in this format, or `None` if it does not fit.
@@ -517,7 +518,7 @@ macro_rules! convert_common {
             #[inline]
             #[must_use]
             pub fn checked_from_int<N: PrimitiveInt>(n: N) -> Option<Self> {
-                Self::try_from_int(n).ok()
+                <Self as QType>::checked_from_int::<N>(n)
             }
 
             /// The value rounded to an integer of type `N`, with a rounding
@@ -538,7 +539,7 @@ macro_rules! convert_common {
             #[track_caller]
             #[must_use]
             pub fn to_int<N: PrimitiveInt>(self, rounding: Rounding, overflow: Overflow) -> N {
-                N::from_store(int_from::<_, N>(self.to_bits(), F::U32, rounding).resolve(N::FORMAT, overflow))
+                <Self as QType>::to_int::<N>(self, rounding, overflow)
             }
 
             /// The value rounded to an integer of type `N`, or an error if it
@@ -553,9 +554,7 @@ macro_rules! convert_common {
             /// ```
             #[inline]
             pub fn try_to_int<N: PrimitiveInt>(self, rounding: Rounding) -> Result<N, RangeError> {
-                int_from::<_, N>(self.to_bits(), F::U32, rounding)
-                    .checked(N::FORMAT)
-                    .map(N::from_store)
+                <Self as QType>::try_to_int::<N>(self, rounding)
             }
 
             /// The value rounded to an integer of type `N`, or `None` if it
@@ -569,7 +568,7 @@ macro_rules! convert_common {
             #[inline]
             #[must_use]
             pub fn checked_to_int<N: PrimitiveInt>(self, rounding: Rounding) -> Option<N> {
-                self.try_to_int(rounding).ok()
+                <Self as QType>::checked_to_int::<N>(self, rounding)
             }
 
             /// The float's exact value rounded into this format. NaN and the
@@ -589,8 +588,7 @@ macro_rules! convert_common {
             #[inline]
             #[track_caller]
             pub fn from_f64(x: f64, rounding: Rounding, overflow: Overflow) -> Result<Self, FloatError> {
-                let s = scaled_from_float(BINARY64, x.to_bits(), F::U32)?;
-                Ok(Self::from_fitted(fitted(s, rounding, Self::FORMAT), overflow))
+                <Self as QType>::from_f64(x, rounding, overflow)
             }
 
             /// The float's exact value rounded into this format; an error
@@ -605,8 +603,7 @@ macro_rules! convert_common {
             /// ```
             #[inline]
             pub fn try_from_f64(x: f64, rounding: Rounding) -> Result<Self, FloatError> {
-                let s = scaled_from_float(BINARY64, x.to_bits(), F::U32)?;
-                Ok(Self::from_fitted_checked(fitted(s, rounding, Self::FORMAT))?)
+                <Self as QType>::try_from_f64(x, rounding)
             }
 
             /// Like [`Self::from_f64`] for an `f32`.
@@ -620,8 +617,7 @@ macro_rules! convert_common {
             #[inline]
             #[track_caller]
             pub fn from_f32(x: f32, rounding: Rounding, overflow: Overflow) -> Result<Self, FloatError> {
-                let s = scaled_from_float(BINARY32, x.to_bits() as u64, F::U32)?;
-                Ok(Self::from_fitted(fitted(s, rounding, Self::FORMAT), overflow))
+                <Self as QType>::from_f32(x, rounding, overflow)
             }
 
             /// Like [`Self::try_from_f64`] for an `f32`.
@@ -632,8 +628,7 @@ macro_rules! convert_common {
             /// ```
             #[inline]
             pub fn try_from_f32(x: f32, rounding: Rounding) -> Result<Self, FloatError> {
-                let s = scaled_from_float(BINARY32, x.to_bits() as u64, F::U32)?;
-                Ok(Self::from_fitted_checked(fitted(s, rounding, Self::FORMAT))?)
+                <Self as QType>::try_from_f32(x, rounding)
             }
 
             /// The value correctly rounded to `f64` (ties to even). Exact
@@ -647,7 +642,7 @@ macro_rules! convert_common {
             #[inline]
             #[must_use]
             pub fn to_f64(self) -> f64 {
-                wide_to_f64(self.to_bits().to_wide(), F::U32)
+                <Self as QType>::to_f64(self)
             }
 
             /// The value correctly rounded to `f32` (ties to even); exact for
@@ -661,7 +656,7 @@ macro_rules! convert_common {
             #[inline]
             #[must_use]
             pub fn to_f32(self) -> f32 {
-                wide_to_f32(self.to_bits().to_wide(), F::U32)
+                <Self as QType>::to_f32(self)
             }
         }
     };

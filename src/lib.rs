@@ -139,10 +139,23 @@
 //! [`Saturated`], whose `+ - * / %` stay in the format (`*` and `/` round
 //! to nearest, ties to even).
 //!
+//! ## Code generic over formats
+//!
+//! [`QType`] (bits, format, rescale, conversions, text, the same-format
+//! families) and [`QFunctions`] (division and the functions) are
+//! implemented by every typed format, so a filter or a test sweep is
+//! written once: `fn step<S: QType, A: QType>(x: S) -> A`. The concrete
+//! types keep the same methods as inherent methods.
+//!
 //! ## Cargo features
 //!
 //! - `const-generics` (default): the `Q<I, F>` / `UQ<I, F>` aliases with
 //!   `usize` parameters. Without it, name the types as `Sq<U7, U8>`.
+//! - `function-tables` (default): 64-bit fast paths of `sin_turns`,
+//!   `cos_turns`, `atan2_turns`, `exp2` and `log2` with their lookup
+//!   tables (about 7.7 KB). Without it (`default-features = false`, for
+//!   flash-constrained targets) the same functions give the same results
+//!   from the shift-and-add kernels, 4 to 8 times slower.
 //! - `serde`: for the typed values, [`QValue`] and [`Format`]; human-readable formats carry the exact decimal text
 //!   (`"1.5"`), binary formats the stored integer; a value that does not
 //!   fit is an error when read, never wrapped or clamped.
@@ -187,7 +200,9 @@ mod width;
 pub use accumulate::{AccumulateError, rescale_slice};
 pub use convert::{FloatError, PrimitiveInt};
 pub use format::{Format, FormatError, MAX_WIDTH};
-pub use functions::FunctionError;
+#[doc(hidden)]
+pub use functions::__paths;
+pub use functions::{FunctionError, QFunctions};
 pub use overflow::{Overflow, RangeError, Side};
 pub use rounding::Rounding;
 pub use storage::{Storage, Wide};

@@ -52,6 +52,9 @@ pub enum Rounding {
     /// step scaled by 2^64 and rounded down. With a uniformly random word
     /// the expected result equals the exact value (unbiased) when at most
     /// 64 bits are discarded; beyond 64 bits the bias is below 2^-64 step.
+    /// The transcendental functions (sin, cos, atan2, exp2, log2) apply
+    /// this rule to a value within 2^-112 of the exact one (see their
+    /// accuracy contract).
     Stochastic(u64),
 }
 

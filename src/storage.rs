@@ -70,12 +70,15 @@ impl Wide {
         Wide { neg: false, lo: v }
     }
 
-    /// `2^n` for `n <= 128`, or `None` above.
+    /// `2^n` for `n < 128`, or `None` from 128 on (a `Wide` holds
+    /// `[-2^128, 2^128)`, so `2^128` itself is out of range while
+    /// [`Wide::neg_pow2`]`(128)` is not).
     ///
     /// ```
     /// # use qbound::Wide;
     /// assert_eq!(Wide::pow2(3), Some(Wide::from_i128(8)));
-    /// assert!(Wide::pow2(129).is_none());
+    /// assert_eq!(Wide::pow2(127), Some(Wide::from_u128(1 << 127)));
+    /// assert!(Wide::pow2(128).is_none());
     /// ```
     #[must_use]
     #[inline]

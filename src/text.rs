@@ -45,7 +45,7 @@ use crate::layout::{SignedLayout, UnsignedLayout};
 use crate::overflow::{Overflow, RangeError};
 use crate::rounding::Rounding;
 use crate::storage::{Storage, Wide};
-use crate::typed::{Sq, Uq};
+use crate::typed::{QType, Sq, Uq};
 use crate::value::QValue;
 
 // ---------------------------------------------------------------------------
@@ -827,9 +827,7 @@ macro_rules! text_common {
             /// ```
             #[track_caller]
             pub fn parse(s: &str, rounding: Rounding, overflow: Overflow) -> Result<Self, ParseError> {
-                let sc = parse_scaled(s.as_bytes(), None, F::U32)?;
-                let f = crate::convert::fitted(sc, rounding, Self::FORMAT);
-                Ok(Self::from_bits_unchecked(f.resolve(Self::FORMAT, overflow)))
+                <Self as QType>::parse(s, rounding, overflow)
             }
 
             /// Parse like [`Self::parse`]; a value outside the range is an
@@ -841,18 +839,34 @@ macro_rules! text_common {
             /// assert!(matches!(e.kind(), ParseErrorKind::OutOfRange(_)));
             /// ```
             pub fn try_parse(s: &str, rounding: Rounding) -> Result<Self, ParseError> {
-                Self::try_parse_radix(s, None, rounding)
-            }
-
-            pub(crate) fn try_parse_radix(s: &str, radix: Option<u32>, rounding: Rounding) -> Result<Self, ParseError> {
-                let sc = parse_scaled(s.as_bytes(), radix, F::U32)?;
-                crate::convert::fitted(sc, rounding, Self::FORMAT)
-                    .checked(Self::FORMAT)
-                    .map(Self::from_bits_unchecked)
-                    .map_err(|e| ParseError::new(ParseErrorKind::OutOfRange(e), 0))
+                <Self as QType>::try_parse(s, rounding)
             }
         }
     };
+}
+
+/// Text in `radix` (or with a prefix), rounded into `f` before the
+/// overflow mode.
+pub(crate) fn parse_fit<D: Storage>(
+    s: &str,
+    radix: Option<u32>,
+    f: Format,
+    rounding: Rounding,
+) -> Result<crate::kernel::Fitted<D>, ParseError> {
+    let sc = parse_scaled(s.as_bytes(), radix, f.frac_bits())?;
+    Ok(crate::convert::fitted(sc, rounding, f))
+}
+
+/// Text rounded into the format of `T`; a value outside it is an error.
+pub(crate) fn parse_checked<T: QType>(
+    s: &str,
+    radix: Option<u32>,
+    rounding: Rounding,
+) -> Result<T, ParseError> {
+    parse_fit::<T::Storage>(s, radix, T::FORMAT, rounding)?
+        .checked(T::FORMAT)
+        .map(T::from_bits_in_range)
+        .map_err(|e| ParseError::new(ParseErrorKind::OutOfRange(e), 0))
 }
 
 text_common!(Sq, SignedLayout, "Q");

@@ -423,7 +423,8 @@ macro_rules! wrapper_ops {
             /// exponent), rounded to nearest with ties to even; out of
             /// range is an error.
             fn from_str_radix(s: &str, radix: u32) -> Result<Self, ParseError> {
-                <$name<I, F>>::try_parse_radix(s, Some(radix), Rounding::NearestTiesEven).map($w)
+                crate::text::parse_checked::<$name<I, F>>(s, Some(radix), Rounding::NearestTiesEven)
+                    .map($w)
             }
         }
         impl<I: $layout<F>, F: Unsigned> Bounded for $w<$name<I, F>> {

@@ -11,12 +11,14 @@ use core::marker::PhantomData;
 
 use typenum::Unsigned;
 
+use crate::convert::{self, FloatError, PrimitiveInt};
 use crate::format::Format;
 use crate::kernel;
 use crate::layout::{SignedLayout, UnsignedLayout};
 use crate::overflow::{Overflow, RangeError};
 use crate::rounding::Rounding;
 use crate::storage::{Storage, WorkInt};
+use crate::text::ParseError;
 use crate::value::QValue;
 
 mod sealed {
@@ -25,15 +27,46 @@ mod sealed {
 
 /// A fixed-point value whose format is fixed by its type: [`Sq`] and [`Uq`].
 ///
-/// Sealed; use it as a bound for code that works on any typed format.
+/// This is the bound for code written once for any format: a filter
+/// generic over its sample type, a test sweep over formats, generated code
+/// that needs `T::FORMAT`. It carries the format constants, bit access,
+/// the rescale family, conversions to and from integers, floats and text,
+/// and the same-format `wrapping_` / `saturating_` / `checked_` /
+/// `overflowing_` families; [`QFunctions`](crate::QFunctions) adds
+/// division and the elementary functions. The concrete types have the same
+/// methods as inherent methods (with examples in their docs), so a call on
+/// a concrete type needs no import.
+///
+/// Sealed: implemented by [`Sq`] and [`Uq`] only.
 ///
 /// ```
-/// use qbound::{QType, Q, UQ, Format};
+/// use qbound::{QType, Q, UQ, Format, Rounding, Overflow};
 /// fn describe<T: QType>() -> Format { T::FORMAT }
 /// assert_eq!(describe::<Q<7, 8>>().to_string(), "Q7.8");
 /// assert_eq!(describe::<UQ<8, 8>>().to_string(), "UQ8.8");
+///
+/// // One gain stage for any sample format: multiply by a coefficient,
+/// // round back into the sample format, saturate.
+/// fn gain<T: QType, C: QType>(x: T, c: C) -> T {
+///     x.mul_rescale(c, Rounding::NearestTiesEven, Overflow::Saturate)
+/// }
+/// let c = UQ::<1, 15>::from_f64(1.5, Rounding::NearestTiesEven, Overflow::Saturate)?;
+/// assert_eq!(gain(Q::<0, 15>::from_bits(0x2000), c).to_bits(), 0x3000);
+/// assert_eq!(gain(Q::<3, 12>::from_bits(-0x1000), c).to_bits(), -0x1800);
+/// assert_eq!(gain(Q::<0, 15>::from_bits(0x7000), c), Q::<0, 15>::MAX);
+/// # Ok::<(), qbound::FloatError>(())
 /// ```
-pub trait QType: Copy + Default + Eq + Ord + Hash + fmt::Debug + sealed::Sealed {
+pub trait QType:
+    Copy
+    + Default
+    + Eq
+    + Ord
+    + Hash
+    + fmt::Debug
+    + fmt::Display
+    + core::str::FromStr<Err = crate::text::ParseError>
+    + sealed::Sealed
+{
     /// The native integer the bits live in.
     type Storage: Storage;
     /// The format.
@@ -60,6 +93,414 @@ pub trait QType: Copy + Default + Eq + Ord + Hash + fmt::Debug + sealed::Sealed 
 
     /// The value as a run-time [`QValue`].
     fn to_value(self) -> QValue;
+
+    /// Bits known to be in range (the sealed implementations skip the
+    /// check).
+    #[doc(hidden)]
+    fn from_bits_in_range(bits: Self::Storage) -> Self;
+
+    /// The value whose stored integer is `bits`; see [`Sq::from_bits`].
+    ///
+    /// # Panics
+    /// If `bits` lies outside the format's range.
+    #[inline]
+    #[track_caller]
+    fn from_bits(bits: Self::Storage) -> Self {
+        match Self::checked_from_bits(bits) {
+            Some(v) => v,
+            None => bits_out_of_range(&bits, Self::FORMAT),
+        }
+    }
+
+    /// The value of a [`QValue`] of exactly this format, or `None` if the
+    /// formats differ; see [`Sq::from_value`].
+    #[inline]
+    fn from_value(v: QValue) -> Option<Self> {
+        if v.format() != Self::FORMAT {
+            return None;
+        }
+        Some(Self::from_bits_in_range(Self::Storage::from_u128_bits(
+            v.bits().low_bits(),
+        )))
+    }
+
+    /// Round into the format of `T`; see [`Sq::rescale`].
+    ///
+    /// # Panics
+    /// With [`Overflow::Panic`], if the rounded value does not fit.
+    #[inline(always)]
+    #[track_caller]
+    fn rescale<T: QType>(self, rounding: Rounding, overflow: Overflow) -> T {
+        rescale_into(self, rounding, overflow)
+    }
+
+    /// Round into the format of `T`, or an error if it does not fit; see
+    /// [`Sq::try_rescale`].
+    #[inline(always)]
+    fn try_rescale<T: QType>(self, rounding: Rounding) -> Result<T, RangeError> {
+        fit_into::<_, T>(self, rounding)
+            .checked(T::FORMAT)
+            .map(T::from_bits_in_range)
+    }
+
+    /// Round into the format of `T`, or `None` if it does not fit.
+    #[inline(always)]
+    fn checked_rescale<T: QType>(self, rounding: Rounding) -> Option<T> {
+        self.try_rescale(rounding).ok()
+    }
+
+    /// Convert into a format that holds every value of this one; see
+    /// [`Sq::widen`].
+    #[inline(always)]
+    fn widen<T: QType>(self) -> T
+    where
+        Self: WidensTo<T>,
+    {
+        widen_into(self)
+    }
+
+    /// The product rounded into the format of `T`; see [`Sq::mul_rescale`].
+    ///
+    /// # Panics
+    /// With [`Overflow::Panic`], if the rounded product does not fit.
+    #[inline(always)]
+    #[track_caller]
+    fn mul_rescale<R: QType, T: QType>(self, rhs: R, rounding: Rounding, overflow: Overflow) -> T {
+        T::from_bits_in_range(
+            mul_fit::<Self, R, T>(self, rhs, rounding).resolve(T::FORMAT, overflow),
+        )
+    }
+
+    /// The product rounded into the format of `T`, or an error if it does
+    /// not fit.
+    #[inline(always)]
+    fn try_mul_rescale<R: QType, T: QType>(
+        self,
+        rhs: R,
+        rounding: Rounding,
+    ) -> Result<T, RangeError> {
+        mul_fit::<Self, R, T>(self, rhs, rounding)
+            .checked(T::FORMAT)
+            .map(T::from_bits_in_range)
+    }
+
+    /// The integer `n` in this format; see [`Sq::from_int`].
+    ///
+    /// # Panics
+    /// With [`Overflow::Panic`], if `n` does not fit.
+    #[inline]
+    #[track_caller]
+    fn from_int<N: PrimitiveInt>(n: N, overflow: Overflow) -> Self {
+        Self::from_bits_in_range(convert::int_into(n, Self::FORMAT).resolve(Self::FORMAT, overflow))
+    }
+
+    /// The integer `n` in this format, or an error if it does not fit.
+    #[inline]
+    fn try_from_int<N: PrimitiveInt>(n: N) -> Result<Self, RangeError> {
+        convert::int_into(n, Self::FORMAT)
+            .checked(Self::FORMAT)
+            .map(Self::from_bits_in_range)
+    }
+
+    /// The integer `n` in this format, or `None` if it does not fit.
+    #[inline]
+    fn checked_from_int<N: PrimitiveInt>(n: N) -> Option<Self> {
+        Self::try_from_int(n).ok()
+    }
+
+    /// The value rounded to an integer of type `N`; see [`Sq::to_int`].
+    ///
+    /// # Panics
+    /// With [`Overflow::Panic`], if the rounded value does not fit `N`.
+    #[inline]
+    #[track_caller]
+    fn to_int<N: PrimitiveInt>(self, rounding: Rounding, overflow: Overflow) -> N {
+        N::from_store(
+            convert::int_from::<_, N>(self.to_bits(), Self::FORMAT.frac_bits(), rounding)
+                .resolve(N::FORMAT, overflow),
+        )
+    }
+
+    /// The value rounded to an integer of type `N`, or an error if it does
+    /// not fit `N`.
+    #[inline]
+    fn try_to_int<N: PrimitiveInt>(self, rounding: Rounding) -> Result<N, RangeError> {
+        convert::int_from::<_, N>(self.to_bits(), Self::FORMAT.frac_bits(), rounding)
+            .checked(N::FORMAT)
+            .map(N::from_store)
+    }
+
+    /// The value rounded to an integer of type `N`, or `None` if it does
+    /// not fit `N`.
+    #[inline]
+    fn checked_to_int<N: PrimitiveInt>(self, rounding: Rounding) -> Option<N> {
+        self.try_to_int(rounding).ok()
+    }
+
+    /// The float's exact value rounded into this format; see
+    /// [`Sq::from_f64`].
+    #[inline]
+    #[track_caller]
+    fn from_f64(x: f64, rounding: Rounding, overflow: Overflow) -> Result<Self, FloatError> {
+        Ok(Self::from_bits_in_range(
+            convert::float_fit::<Self::Storage>(
+                convert::BINARY64,
+                x.to_bits(),
+                Self::FORMAT,
+                rounding,
+            )?
+            .resolve(Self::FORMAT, overflow),
+        ))
+    }
+
+    /// The float's exact value rounded into this format; an error for NaN,
+    /// infinities and values that do not fit.
+    #[inline]
+    fn try_from_f64(x: f64, rounding: Rounding) -> Result<Self, FloatError> {
+        let f = convert::float_fit::<Self::Storage>(
+            convert::BINARY64,
+            x.to_bits(),
+            Self::FORMAT,
+            rounding,
+        )?;
+        Ok(f.checked(Self::FORMAT).map(Self::from_bits_in_range)?)
+    }
+
+    /// Like [`QType::from_f64`] for an `f32`.
+    #[inline]
+    #[track_caller]
+    fn from_f32(x: f32, rounding: Rounding, overflow: Overflow) -> Result<Self, FloatError> {
+        Ok(Self::from_bits_in_range(
+            convert::float_fit::<Self::Storage>(
+                convert::BINARY32,
+                x.to_bits() as u64,
+                Self::FORMAT,
+                rounding,
+            )?
+            .resolve(Self::FORMAT, overflow),
+        ))
+    }
+
+    /// Like [`QType::try_from_f64`] for an `f32`.
+    #[inline]
+    fn try_from_f32(x: f32, rounding: Rounding) -> Result<Self, FloatError> {
+        let f = convert::float_fit::<Self::Storage>(
+            convert::BINARY32,
+            x.to_bits() as u64,
+            Self::FORMAT,
+            rounding,
+        )?;
+        Ok(f.checked(Self::FORMAT).map(Self::from_bits_in_range)?)
+    }
+
+    /// The value correctly rounded to `f64` (ties to even).
+    #[inline]
+    fn to_f64(self) -> f64 {
+        convert::wide_to_f64(self.to_bits().to_wide(), Self::FORMAT.frac_bits())
+    }
+
+    /// The value correctly rounded to `f32` (ties to even).
+    #[inline]
+    fn to_f32(self) -> f32 {
+        convert::wide_to_f32(self.to_bits().to_wide(), Self::FORMAT.frac_bits())
+    }
+
+    /// Parse a number, rounded once into this format; see [`Sq::parse`].
+    ///
+    /// # Panics
+    /// With [`Overflow::Panic`], if the rounded value does not fit.
+    #[track_caller]
+    fn parse(s: &str, rounding: Rounding, overflow: Overflow) -> Result<Self, ParseError> {
+        let f = crate::text::parse_fit::<Self::Storage>(s, None, Self::FORMAT, rounding)?;
+        Ok(Self::from_bits_in_range(f.resolve(Self::FORMAT, overflow)))
+    }
+
+    /// Parse like [`QType::parse`]; a value outside the range is an error.
+    fn try_parse(s: &str, rounding: Rounding) -> Result<Self, ParseError> {
+        crate::text::parse_checked::<Self>(s, None, rounding)
+    }
+
+    /// `self + rhs` in this format, wrapping around on overflow.
+    #[inline(always)]
+    fn wrapping_add(self, rhs: Self) -> Self {
+        same(
+            kernel::add_same(self.to_bits(), rhs.to_bits(), Self::FORMAT),
+            Overflow::Wrap,
+        )
+    }
+    /// `self + rhs` in this format, clamped to the range.
+    #[inline(always)]
+    fn saturating_add(self, rhs: Self) -> Self {
+        same(
+            kernel::add_same(self.to_bits(), rhs.to_bits(), Self::FORMAT),
+            Overflow::Saturate,
+        )
+    }
+    /// `self + rhs` in this format, or `None` on overflow.
+    #[inline(always)]
+    fn checked_add(self, rhs: Self) -> Option<Self> {
+        same_checked(kernel::add_same(
+            self.to_bits(),
+            rhs.to_bits(),
+            Self::FORMAT,
+        ))
+    }
+    /// `self + rhs` wrapped, and whether it overflowed.
+    #[inline(always)]
+    fn overflowing_add(self, rhs: Self) -> (Self, bool) {
+        same_overflowing(kernel::add_same(
+            self.to_bits(),
+            rhs.to_bits(),
+            Self::FORMAT,
+        ))
+    }
+    /// `self - rhs` in this format, wrapping around on overflow.
+    #[inline(always)]
+    fn wrapping_sub(self, rhs: Self) -> Self {
+        same(
+            kernel::sub_same(self.to_bits(), rhs.to_bits(), Self::FORMAT),
+            Overflow::Wrap,
+        )
+    }
+    /// `self - rhs` in this format, clamped to the range.
+    #[inline(always)]
+    fn saturating_sub(self, rhs: Self) -> Self {
+        same(
+            kernel::sub_same(self.to_bits(), rhs.to_bits(), Self::FORMAT),
+            Overflow::Saturate,
+        )
+    }
+    /// `self - rhs` in this format, or `None` on overflow.
+    #[inline(always)]
+    fn checked_sub(self, rhs: Self) -> Option<Self> {
+        same_checked(kernel::sub_same(
+            self.to_bits(),
+            rhs.to_bits(),
+            Self::FORMAT,
+        ))
+    }
+    /// `self - rhs` wrapped, and whether it overflowed.
+    #[inline(always)]
+    fn overflowing_sub(self, rhs: Self) -> (Self, bool) {
+        same_overflowing(kernel::sub_same(
+            self.to_bits(),
+            rhs.to_bits(),
+            Self::FORMAT,
+        ))
+    }
+    /// `-self` in this format, wrapping around on overflow.
+    #[inline(always)]
+    fn wrapping_neg(self) -> Self {
+        same(
+            kernel::neg_same(self.to_bits(), Self::FORMAT),
+            Overflow::Wrap,
+        )
+    }
+    /// `-self` in this format, clamped to the range.
+    #[inline(always)]
+    fn saturating_neg(self) -> Self {
+        same(
+            kernel::neg_same(self.to_bits(), Self::FORMAT),
+            Overflow::Saturate,
+        )
+    }
+    /// `-self` in this format, or `None` on overflow.
+    #[inline(always)]
+    fn checked_neg(self) -> Option<Self> {
+        same_checked(kernel::neg_same(self.to_bits(), Self::FORMAT))
+    }
+    /// `-self` wrapped, and whether it overflowed.
+    #[inline(always)]
+    fn overflowing_neg(self) -> (Self, bool) {
+        same_overflowing(kernel::neg_same(self.to_bits(), Self::FORMAT))
+    }
+    /// `|self|` in this format, wrapping around on overflow.
+    #[inline(always)]
+    fn wrapping_abs(self) -> Self {
+        same(
+            kernel::abs_same(self.to_bits(), Self::FORMAT),
+            Overflow::Wrap,
+        )
+    }
+    /// `|self|` in this format, clamped to the range.
+    #[inline(always)]
+    fn saturating_abs(self) -> Self {
+        same(
+            kernel::abs_same(self.to_bits(), Self::FORMAT),
+            Overflow::Saturate,
+        )
+    }
+    /// `|self|` in this format, or `None` on overflow.
+    #[inline(always)]
+    fn checked_abs(self) -> Option<Self> {
+        same_checked(kernel::abs_same(self.to_bits(), Self::FORMAT))
+    }
+    /// `|self|` wrapped, and whether it overflowed.
+    #[inline(always)]
+    fn overflowing_abs(self) -> (Self, bool) {
+        same_overflowing(kernel::abs_same(self.to_bits(), Self::FORMAT))
+    }
+    /// `self × rhs` rounded into this format, wrapping around on overflow.
+    #[inline(always)]
+    fn wrapping_mul(self, rhs: Self, rounding: Rounding) -> Self {
+        self.mul_rescale(rhs, rounding, Overflow::Wrap)
+    }
+    /// `self × rhs` rounded into this format, clamped to the range.
+    #[inline(always)]
+    fn saturating_mul(self, rhs: Self, rounding: Rounding) -> Self {
+        self.mul_rescale(rhs, rounding, Overflow::Saturate)
+    }
+    /// `self × rhs` rounded into this format, or `None` if it does not fit.
+    #[inline(always)]
+    fn checked_mul(self, rhs: Self, rounding: Rounding) -> Option<Self> {
+        self.try_mul_rescale(rhs, rounding).ok()
+    }
+    /// `self × rhs` rounded and wrapped, and whether it overflowed.
+    #[inline(always)]
+    fn overflowing_mul(self, rhs: Self, rounding: Rounding) -> (Self, bool) {
+        same_overflowing(mul_fit::<Self, Self, Self>(self, rhs, rounding))
+    }
+}
+
+#[cold]
+#[inline(never)]
+#[track_caller]
+fn bits_out_of_range(bits: &dyn fmt::Debug, f: Format) -> ! {
+    panic!("qbound: bits {bits:?} lie outside the range of {f}")
+}
+
+/// A same-format result with an overflow mode.
+#[inline(always)]
+#[track_caller]
+fn same<T: QType>(f: kernel::Fitted<T::Storage>, overflow: Overflow) -> T {
+    T::from_bits_in_range(f.resolve(T::FORMAT, overflow))
+}
+
+#[inline(always)]
+fn same_checked<T: QType>(f: kernel::Fitted<T::Storage>) -> Option<T> {
+    f.checked(T::FORMAT).ok().map(T::from_bits_in_range)
+}
+
+#[inline(always)]
+fn same_overflowing<T: QType>(f: kernel::Fitted<T::Storage>) -> (T, bool) {
+    (T::from_bits_in_range(f.wrapped), f.side.is_some())
+}
+
+/// `a × b` rounded into the format of `T`, before the overflow mode.
+#[inline(always)]
+fn mul_fit<A: QType, B: QType, T: QType>(
+    a: A,
+    b: B,
+    rounding: Rounding,
+) -> kernel::Fitted<T::Storage> {
+    kernel::mul_rescale::<_, _, T::Storage>(
+        a.to_bits(),
+        A::FORMAT,
+        b.to_bits(),
+        B::FORMAT,
+        T::FORMAT,
+        rounding,
+    )
 }
 
 macro_rules! typed_common {
@@ -128,6 +569,11 @@ macro_rules! typed_common {
             fn to_value(self) -> QValue {
                 QValue::from_wide_unchecked(Self::FORMAT, self.bits.to_wide())
             }
+
+            #[inline(always)]
+            fn from_bits_in_range(bits: Self::Storage) -> Self {
+                Self::from_bits_unchecked(bits)
+            }
         }
 
         impl<I: $layout<F>, F: Unsigned> $name<I, F> {
@@ -159,14 +605,7 @@ macro_rules! typed_common {
             #[inline]
             #[track_caller]
             pub fn from_bits(bits: <I as $layout<F>>::Storage) -> Self {
-                match <Self as QType>::checked_from_bits(bits) {
-                    Some(v) => v,
-                    None => panic!(
-                        "qbound: bits {:?} lie outside the range of {}",
-                        bits,
-                        Self::FORMAT
-                    ),
-                }
+                <Self as QType>::from_bits(bits)
             }
 
             /// The value whose stored integer is `bits`, or `None` if the bits
@@ -202,12 +641,7 @@ macro_rules! typed_common {
             #[inline]
             #[must_use]
             pub fn from_value(v: QValue) -> Option<Self> {
-                if v.format() != Self::FORMAT {
-                    return None;
-                }
-                Some(Self::from_bits_unchecked(
-                    <Self as QType>::Storage::from_u128_bits(v.bits().low_bits()),
-                ))
+                <Self as QType>::from_value(v)
             }
 
             /// Round into the format of `T`, with a rounding mode and an
@@ -222,23 +656,21 @@ macro_rules! typed_common {
             #[inline(always)]
             #[track_caller]
             pub fn rescale<T: QType>(self, rounding: Rounding, overflow: Overflow) -> T {
-                rescale_into(self, rounding, overflow)
+                <Self as QType>::rescale::<T>(self, rounding, overflow)
             }
 
             /// Round into the format of `T`; `None` if the rounded value does
             /// not fit.
             #[inline(always)]
             pub fn checked_rescale<T: QType>(self, rounding: Rounding) -> Option<T> {
-                self.try_rescale(rounding).ok()
+                <Self as QType>::checked_rescale::<T>(self, rounding)
             }
 
             /// Round into the format of `T`; an error that says on which side
             /// of the range the rounded value fell if it does not fit.
             #[inline(always)]
             pub fn try_rescale<T: QType>(self, rounding: Rounding) -> Result<T, RangeError> {
-                fit_into::<_, T>(self, rounding)
-                    .checked(T::FORMAT)
-                    .map(T::wrapping_from_bits)
+                <Self as QType>::try_rescale::<T>(self, rounding)
             }
 
             /// Convert into a format that holds every value of this one: no
@@ -248,7 +680,7 @@ macro_rules! typed_common {
             where
                 Self: WidensTo<T>,
             {
-                widen_into(self)
+                <Self as QType>::widen::<T>(self)
             }
 
             /// The product rounded into the format of `T`, for any operand
@@ -266,15 +698,7 @@ macro_rules! typed_common {
                 rounding: Rounding,
                 overflow: Overflow,
             ) -> T {
-                let fitted = kernel::mul_rescale::<_, _, T::Storage>(
-                    self.bits,
-                    Self::FORMAT,
-                    rhs.to_bits(),
-                    R::FORMAT,
-                    T::FORMAT,
-                    rounding,
-                );
-                T::wrapping_from_bits(fitted.resolve(T::FORMAT, overflow))
+                <Self as QType>::mul_rescale::<R, T>(self, rhs, rounding, overflow)
             }
 
             /// The product rounded into the format of `T`, or an error if it
@@ -285,87 +709,57 @@ macro_rules! typed_common {
                 rhs: R,
                 rounding: Rounding,
             ) -> Result<T, RangeError> {
-                let fitted = kernel::mul_rescale::<_, _, T::Storage>(
-                    self.bits,
-                    Self::FORMAT,
-                    rhs.to_bits(),
-                    R::FORMAT,
-                    T::FORMAT,
-                    rounding,
-                );
-                fitted.checked(T::FORMAT).map(T::wrapping_from_bits)
-            }
-
-            #[inline(always)]
-            #[track_caller]
-            fn resolve(f: kernel::Fitted<<I as $layout<F>>::Storage>, overflow: Overflow) -> Self {
-                Self::from_bits_unchecked(f.resolve(Self::FORMAT, overflow))
+                <Self as QType>::try_mul_rescale::<R, T>(self, rhs, rounding)
             }
 
             /// `self + rhs` in this format, wrapping around on overflow.
             #[inline(always)]
             #[must_use]
             pub fn wrapping_add(self, rhs: Self) -> Self {
-                Self::resolve(
-                    kernel::add_same(self.bits, rhs.bits, Self::FORMAT),
-                    Overflow::Wrap,
-                )
+                <Self as QType>::wrapping_add(self, rhs)
             }
             /// `self + rhs` in this format, clamped to the range.
             #[inline(always)]
             #[must_use]
             pub fn saturating_add(self, rhs: Self) -> Self {
-                Self::resolve(
-                    kernel::add_same(self.bits, rhs.bits, Self::FORMAT),
-                    Overflow::Saturate,
-                )
+                <Self as QType>::saturating_add(self, rhs)
             }
             /// `self + rhs` in this format, or `None` on overflow.
             #[inline(always)]
             #[must_use]
             pub fn checked_add(self, rhs: Self) -> Option<Self> {
-                let f = kernel::add_same(self.bits, rhs.bits, Self::FORMAT);
-                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+                <Self as QType>::checked_add(self, rhs)
             }
             /// `self + rhs` wrapped, and whether it overflowed.
             #[inline(always)]
             #[must_use]
             pub fn overflowing_add(self, rhs: Self) -> (Self, bool) {
-                let f = kernel::add_same(self.bits, rhs.bits, Self::FORMAT);
-                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+                <Self as QType>::overflowing_add(self, rhs)
             }
 
             /// `self - rhs` in this format, wrapping around on overflow.
             #[inline(always)]
             #[must_use]
             pub fn wrapping_sub(self, rhs: Self) -> Self {
-                Self::resolve(
-                    kernel::sub_same(self.bits, rhs.bits, Self::FORMAT),
-                    Overflow::Wrap,
-                )
+                <Self as QType>::wrapping_sub(self, rhs)
             }
             /// `self - rhs` in this format, clamped to the range.
             #[inline(always)]
             #[must_use]
             pub fn saturating_sub(self, rhs: Self) -> Self {
-                Self::resolve(
-                    kernel::sub_same(self.bits, rhs.bits, Self::FORMAT),
-                    Overflow::Saturate,
-                )
+                <Self as QType>::saturating_sub(self, rhs)
             }
             /// `self - rhs` in this format, or `None` on overflow.
             #[inline(always)]
             #[must_use]
             pub fn checked_sub(self, rhs: Self) -> Option<Self> {
-                let f = kernel::sub_same(self.bits, rhs.bits, Self::FORMAT);
-                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+                <Self as QType>::checked_sub(self, rhs)
             }
             /// `self - rhs` wrapped, and whether it overflowed.
             #[inline(always)]
             #[must_use]
             pub fn overflowing_sub(self, rhs: Self) -> (Self, bool) {
-                let f = kernel::sub_same(self.bits, rhs.bits, Self::FORMAT);
-                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+                <Self as QType>::overflowing_sub(self, rhs)
             }
 
             /// `-self` in this format, wrapping around on overflow (`-MIN`
@@ -373,30 +767,25 @@ macro_rules! typed_common {
             #[inline(always)]
             #[must_use]
             pub fn wrapping_neg(self) -> Self {
-                Self::resolve(kernel::neg_same(self.bits, Self::FORMAT), Overflow::Wrap)
+                <Self as QType>::wrapping_neg(self)
             }
             /// `-self` in this format, clamped to the range.
             #[inline(always)]
             #[must_use]
             pub fn saturating_neg(self) -> Self {
-                Self::resolve(
-                    kernel::neg_same(self.bits, Self::FORMAT),
-                    Overflow::Saturate,
-                )
+                <Self as QType>::saturating_neg(self)
             }
             /// `-self` in this format, or `None` on overflow.
             #[inline(always)]
             #[must_use]
             pub fn checked_neg(self) -> Option<Self> {
-                let f = kernel::neg_same(self.bits, Self::FORMAT);
-                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+                <Self as QType>::checked_neg(self)
             }
             /// `-self` wrapped, and whether it overflowed.
             #[inline(always)]
             #[must_use]
             pub fn overflowing_neg(self) -> (Self, bool) {
-                let f = kernel::neg_same(self.bits, Self::FORMAT);
-                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+                <Self as QType>::overflowing_neg(self)
             }
 
             /// `|self|` in this format, wrapping around on overflow (`|MIN|`
@@ -404,30 +793,25 @@ macro_rules! typed_common {
             #[inline(always)]
             #[must_use]
             pub fn wrapping_abs(self) -> Self {
-                Self::resolve(kernel::abs_same(self.bits, Self::FORMAT), Overflow::Wrap)
+                <Self as QType>::wrapping_abs(self)
             }
             /// `|self|` in this format, clamped to the range.
             #[inline(always)]
             #[must_use]
             pub fn saturating_abs(self) -> Self {
-                Self::resolve(
-                    kernel::abs_same(self.bits, Self::FORMAT),
-                    Overflow::Saturate,
-                )
+                <Self as QType>::saturating_abs(self)
             }
             /// `|self|` in this format, or `None` on overflow.
             #[inline(always)]
             #[must_use]
             pub fn checked_abs(self) -> Option<Self> {
-                let f = kernel::abs_same(self.bits, Self::FORMAT);
-                f.checked(Self::FORMAT).ok().map(Self::from_bits_unchecked)
+                <Self as QType>::checked_abs(self)
             }
             /// `|self|` wrapped, and whether it overflowed.
             #[inline(always)]
             #[must_use]
             pub fn overflowing_abs(self) -> (Self, bool) {
-                let f = kernel::abs_same(self.bits, Self::FORMAT);
-                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+                <Self as QType>::overflowing_abs(self)
             }
 
             /// `self × rhs` rounded into this format, wrapping around on
@@ -436,34 +820,26 @@ macro_rules! typed_common {
             #[inline(always)]
             #[must_use]
             pub fn wrapping_mul(self, rhs: Self, rounding: Rounding) -> Self {
-                self.mul_rescale(rhs, rounding, Overflow::Wrap)
+                <Self as QType>::wrapping_mul(self, rhs, rounding)
             }
             /// `self × rhs` rounded into this format, clamped to the range.
             #[inline(always)]
             #[must_use]
             pub fn saturating_mul(self, rhs: Self, rounding: Rounding) -> Self {
-                self.mul_rescale(rhs, rounding, Overflow::Saturate)
+                <Self as QType>::saturating_mul(self, rhs, rounding)
             }
             /// `self × rhs` rounded into this format, or `None` if the
             /// rounded product does not fit.
             #[inline(always)]
             #[must_use]
             pub fn checked_mul(self, rhs: Self, rounding: Rounding) -> Option<Self> {
-                self.try_mul_rescale(rhs, rounding).ok()
+                <Self as QType>::checked_mul(self, rhs, rounding)
             }
             /// `self × rhs` rounded and wrapped, and whether it overflowed.
             #[inline(always)]
             #[must_use]
             pub fn overflowing_mul(self, rhs: Self, rounding: Rounding) -> (Self, bool) {
-                let f = kernel::mul_rescale::<_, _, <I as $layout<F>>::Storage>(
-                    self.bits,
-                    Self::FORMAT,
-                    rhs.bits,
-                    Self::FORMAT,
-                    Self::FORMAT,
-                    rounding,
-                );
-                (Self::from_bits_unchecked(f.wrapped), f.side.is_some())
+                <Self as QType>::overflowing_mul(self, rhs, rounding)
             }
         }
     };

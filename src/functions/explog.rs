@@ -51,6 +51,19 @@ pub(crate) fn exp2<D: Storage>(
     dst: Format,
     rnd: Rounding,
 ) -> Result<Fitted<D>, FunctionError> {
+    #[cfg(feature = "function-tables")]
+    if let Some(f) = super::fast::exp2(x, dst, rnd) {
+        return Ok(f);
+    }
+    exp2_slow(x, dst, rnd)
+}
+
+/// The 128-bit kernel of [`exp2`].
+pub(crate) fn exp2_slow<D: Storage>(
+    x: QValue,
+    dst: Format,
+    rnd: Rounding,
+) -> Result<Fitted<D>, FunctionError> {
     let fa = x.format().frac_bits();
     let e = x
         .bits()
@@ -113,6 +126,19 @@ pub(crate) fn exp2<D: Storage>(
 
 /// `log2(x)` rounded into `dst`.
 pub(crate) fn log2<D: Storage>(
+    x: QValue,
+    dst: Format,
+    rnd: Rounding,
+) -> Result<Fitted<D>, FunctionError> {
+    #[cfg(feature = "function-tables")]
+    if let Some(f) = super::fast::log2(x, dst, rnd) {
+        return Ok(f);
+    }
+    log2_slow(x, dst, rnd)
+}
+
+/// The 128-bit kernel of [`log2`].
+pub(crate) fn log2_slow<D: Storage>(
     x: QValue,
     dst: Format,
     rnd: Rounding,

@@ -17,10 +17,11 @@
 //!   remainder, so the rounding sees the exact value — also the stochastic
 //!   mode, which compares its random word with the first 64 bits of the
 //!   exact discarded fraction.
-//! - **sin, cos, atan2, exp2, log2: correctly rounded in every mode unless
-//!   the exact value lies within 2^-112 of a rounding boundary of the
-//!   output format** (relative to the result for exp2); in every case the
-//!   error is below one ulp plus 2^-112. The kernels compute an
+//! - **sin, cos, atan2, exp2, log2: the requested rounding of a value
+//!   within 2^-112 of the exact one** (relative to the result for exp2).
+//!   So they are correctly rounded in every mode unless the exact value
+//!   lies within 2^-112 of a rounding boundary of the output format, and
+//!   the error is always below one ulp plus 2^-112. The kernels compute an
 //!   approximation together with a proven bound on its error (the method
 //!   of Ziv): when every value inside the bound rounds to the same result,
 //!   that result is the correctly rounded one. A first attempt uses as many
@@ -35,6 +36,32 @@
 //!   value lies within 2^-112 of a boundary is too rare to have been met in
 //!   any test; for wider outputs the 2^-112 term dominates.
 //!   `docs/accuracy.md` lists the measured worst errors.
+//!
+//! What the 2^-112 allowance means in practice:
+//!
+//! - Where a function approaches a dyadic point (`cos x` near 1 and
+//!   `1 - x²/2`, `sin x` near `x`, `atan(r)` near `r`, `2^f` near 1 and 2,
+//!   `log2 m` near 0 and 1), the kernels carry strict mathematical bounds
+//!   (`cos x < 1` for `x != 0`), so a result never lands on the wrong side
+//!   of that point itself: Floor of a cosine just below 1 is below 1 at
+//!   any precision. A boundary *next to* that point (the midpoint between
+//!   it and its neighbour, for the nearest modes) is an ordinary boundary:
+//!   `log2` of `UQ1.127::MAX` (`1 - 0.72·2^-127`) rounds to nearest as 1,
+//!   not as `1 - 2^-127`, because the two are closer than 2^-112.
+//! - Stochastic rounding follows its rule (up exactly when the random word
+//!   is below the first 64 bits of the discarded fraction) for a value
+//!   within 2^-112 of the exact one. Its boundaries lie 2^-64 of a step
+//!   apart, so for outputs with more than about 48 fraction bits the rule
+//!   acts on the approximation: the probability of rounding up differs from
+//!   the exact discarded fraction by at most `2^(F-112)` of a step (`F`
+//!   the output's fraction bits). In particular a result just above a
+//!   representable value (by less than 2^-64 of a step) may still round up
+//!   for a few small random words.
+//! - With [`Overflow::Wrap`] an out-of-range result is that rounded value
+//!   reduced modulo `2^width`: exact while the value times `2^F` is below
+//!   about 2^100 (the allowance is then below a step), otherwise its low
+//!   bits come from the approximation. `2^122.75` into `UQ16.0` (toward
+//!   zero) wraps to 27131, where the exact value wraps to 27134.
 //!
 //! The radian forms carry one more rounding inside (the argument times
 //! `1/(2π)`, or the turns times `2π`), which the error bound includes, so
@@ -59,14 +86,29 @@
 //! runs. A minimax polynomial would be faster on a CPU with a fast
 //! multiplier, but needs a separate coefficient set per precision and a
 //! multiplication error analysis per format.
+//!
+//! With the feature `function-tables` (default), `sin_turns`, `cos_turns`,
+//! `atan2_turns`, `exp2` and `log2` first try a fast path on 64-bit
+//! integers (tables and short polynomials, `fast.rs`) for outputs with up
+//! to 52 fraction bits. It returns a result only when its proven error
+//! bound shows it is the correctly rounded one, so the results are the
+//! same with and without the feature; see `docs/functions.md`.
 
 mod divide;
 mod explog;
+#[cfg(feature = "function-tables")]
+mod fast;
+#[cfg(feature = "function-tables")]
+#[rustfmt::skip]
+mod fast_tables;
 mod nat;
 mod root;
 mod tables;
 mod trig;
 mod typed;
+#[doc(hidden)]
+pub use paths as __paths;
+pub use typed::QFunctions;
 
 use core::cmp::Ordering;
 use core::fmt;
@@ -412,9 +454,13 @@ fn nudged<D: Storage>(b: i128, frac: u32, up: bool, dst: Format, rnd: Rounding) 
             frac_exact: false,
         }
     } else if r == 0 {
+        // b steps exactly: the value just below it is (q - 1) steps and a
+        // fraction. It is beyond 2^128 steps unless b is exactly 2^128
+        // steps (q has wrapped to zero then, so test the exact value).
+        let exactly_2_128 = big && mb.is_power_of_two() && mb.trailing_zeros() + (fd - frac) == 128;
         Mag {
             q: q.wrapping_sub(1),
-            big: big && q != 0,
+            big: big && !exactly_2_128,
             exact: false,
             vs_half: core::cmp::Ordering::Greater,
             frac64: u64::MAX,
@@ -496,6 +542,76 @@ fn ziv<D: Storage>(
 }
 
 use crate::value::with_storage;
+
+/// Test access to the two kernels of the functions that have a fast path,
+/// so the tests can check each against MPFR on its own. Not a public API.
+#[doc(hidden)]
+pub mod paths {
+    use super::{FunctionError, explog, trig};
+    use crate::format::Format;
+    use crate::rounding::Rounding;
+    use crate::value::{QValue, with_storage};
+
+    /// A function with a fast path.
+    #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+    pub enum Kernel {
+        /// `sin_turns`.
+        SinTurns,
+        /// `cos_turns`.
+        CosTurns,
+        /// `atan2_turns` (`a` the ordinate, `b` the abscissa).
+        Atan2Turns,
+        /// `exp2`.
+        Exp2,
+        /// `log2`.
+        Log2,
+    }
+
+    /// The fast path's result, or `None` where it leaves the call to the
+    /// 128-bit kernel (always `None` without the `function-tables`
+    /// feature).
+    pub fn fast(k: Kernel, a: QValue, b: QValue, dst: Format, rnd: Rounding) -> Option<QValue> {
+        #[cfg(feature = "function-tables")]
+        {
+            use super::fast;
+            with_storage!(dst, D => {
+                let f = match k {
+                    Kernel::SinTurns => fast::sincos_turns::<D>(trig::phase_of_turns(a), dst, rnd, true),
+                    Kernel::CosTurns => fast::sincos_turns::<D>(trig::phase_of_turns(a), dst, rnd, false),
+                    Kernel::Atan2Turns => fast::atan2_turns::<D>(a, b, dst, rnd),
+                    Kernel::Exp2 => fast::exp2::<D>(a, dst, rnd),
+                    Kernel::Log2 => fast::log2::<D>(a, dst, rnd),
+                };
+                f.map(|f| QValue::finish::<D>(f, dst, crate::Overflow::Wrap))
+            })
+        }
+        #[cfg(not(feature = "function-tables"))]
+        {
+            let _ = (k, a, b, dst, rnd);
+            None
+        }
+    }
+
+    /// The 128-bit kernel's result (with wrap-around on overflow).
+    pub fn slow(
+        k: Kernel,
+        a: QValue,
+        b: QValue,
+        dst: Format,
+        rnd: Rounding,
+    ) -> Result<QValue, FunctionError> {
+        with_storage!(dst, D => {
+            let f = match k {
+                Kernel::SinTurns => Ok(trig::turns_slow::<D>(trig::phase_of_turns(a), dst, rnd, true)),
+                Kernel::CosTurns => Ok(trig::turns_slow::<D>(trig::phase_of_turns(a), dst, rnd, false)),
+                Kernel::Atan2Turns => trig::atan2_turns_slow::<D>(a, b, dst, rnd),
+                Kernel::Exp2 => explog::exp2_slow::<D>(a, dst, rnd),
+                Kernel::Log2 => explog::log2_slow::<D>(a, dst, rnd),
+            };
+            f.map(|f| QValue::finish::<D>(f, dst, crate::Overflow::Wrap))
+        })
+    }
+}
 
 /// The run-time forms: one macro arm per function shape.
 macro_rules! value_fns {

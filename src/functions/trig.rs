@@ -83,7 +83,7 @@ fn sincos(phase: u128, extra: i128, n: u32) -> (Approx, Approx) {
 }
 
 /// The fraction of a turn of a value read as turns, in units of 2^-128.
-fn phase_of_turns(x: QValue) -> u128 {
+pub(crate) fn phase_of_turns(x: QValue) -> u128 {
     let fa = x.format().frac_bits();
     if fa == 0 {
         0
@@ -125,6 +125,20 @@ fn sincos_fitted<D: Storage>(
 /// `sin(2π x)` or `cos(2π x)` rounded into `dst`.
 fn turns_fitted<D: Storage>(x: QValue, dst: Format, rnd: Rounding, want_sin: bool) -> Fitted<D> {
     let p = phase_of_turns(x);
+    #[cfg(feature = "function-tables")]
+    if let Some(f) = super::fast::sincos_turns(p, dst, rnd, want_sin) {
+        return f;
+    }
+    turns_slow(p, dst, rnd, want_sin)
+}
+
+/// The 128-bit kernel of [`turns_fitted`].
+pub(crate) fn turns_slow<D: Storage>(
+    p: u128,
+    dst: Format,
+    rnd: Rounding,
+    want_sin: bool,
+) -> Fitted<D> {
     let first = first_iters(dst.frac_bits() as i64, rnd);
     ziv(dst, rnd, first, |n| {
         let (c, s) = sincos(p, 0, n);
@@ -307,6 +321,20 @@ fn vector(f: &Folded, n: u32) -> Approx {
 
 /// `atan2(y, x)` in turns rounded into `dst`.
 pub(crate) fn atan2_turns<D: Storage>(
+    y: QValue,
+    x: QValue,
+    dst: Format,
+    rnd: Rounding,
+) -> Result<Fitted<D>, FunctionError> {
+    #[cfg(feature = "function-tables")]
+    if let Some(f) = super::fast::atan2_turns(y, x, dst, rnd) {
+        return Ok(f);
+    }
+    atan2_turns_slow(y, x, dst, rnd)
+}
+
+/// The 128-bit kernel of [`atan2_turns`].
+pub(crate) fn atan2_turns_slow<D: Storage>(
     y: QValue,
     x: QValue,
     dst: Format,

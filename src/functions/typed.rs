@@ -10,9 +10,11 @@ use crate::overflow::Overflow;
 use crate::rounding::Rounding;
 use crate::typed::{QType, Sq, Uq};
 
-macro_rules! typed_fns {
-    ($name:ident, $layout:ident) => {
-        typed_fns! { @impl $name, $layout,
+/// The one list of the functions (with the inherent methods' docs): calls
+/// `$cb!` with the given leading tokens and the list.
+macro_rules! function_list {
+    ($cb:ident $($lead:tt)*) => {
+        $cb! { $($lead)*
             /// `self / rhs` correctly rounded into the format of `T` (any
             /// operand formats).
             ///
@@ -156,7 +158,11 @@ macro_rules! typed_fns {
             fn log2 / try_log2 () => explog::log2;
         }
     };
-    (@impl $name:ident, $layout:ident, $(
+}
+
+/// The inherent methods on `Sq` / `Uq`, forwarding to [`QFunctions`].
+macro_rules! typed_fns {
+    ($name:ident, $layout:ident, $(
         $(#[$doc:meta])*
         fn $f:ident / $try_f:ident ( $($arg:ident)? ) => $m:ident :: $k:ident;
     )*) => {
@@ -166,10 +172,7 @@ macro_rules! typed_fns {
             #[track_caller]
             #[must_use]
             pub fn $f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding, overflow: Overflow) -> T {
-                match $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding) {
-                    Ok(f) => T::wrapping_from_bits(f.resolve(T::FORMAT, overflow)),
-                    Err(e) => domain_panic(e),
-                }
+                <Self as QFunctions>::$f::<T>(self, $($arg,)? rounding, overflow)
             }
 
             /// Like the form without `try_`, with a [`FunctionError`]
@@ -182,12 +185,66 @@ macro_rules! typed_fns {
             /// ```
             #[inline]
             pub fn $try_f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding) -> Result<T, FunctionError> {
-                let f = $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding)?;
-                Ok(T::wrapping_from_bits(f.checked(T::FORMAT)?))
+                <Self as QFunctions>::$try_f::<T>(self, $($arg,)? rounding)
             }
         )*}
     };
 }
 
-typed_fns!(Sq, SignedLayout);
-typed_fns!(Uq, UnsignedLayout);
+function_list!(typed_fns Sq, SignedLayout,);
+function_list!(typed_fns Uq, UnsignedLayout,);
+
+/// The typed function body: the run-time kernel with the formats as
+/// constants.
+macro_rules! trait_fns {
+    ($(
+        $(#[$doc:meta])*
+        fn $f:ident / $try_f:ident ( $($arg:ident)? ) => $m:ident :: $k:ident;
+    )*) => {
+        /// Division and the elementary functions for code generic over
+        /// formats: every [`QType`] has them (see [`Sq::div`](crate::Sq::div)
+        /// and the following methods for each one's contract and examples).
+        ///
+        /// ```
+        /// use qbound::{QFunctions, QType, Q, UQ, Rounding, Overflow};
+        /// // A sine table for any phase and output format.
+        /// fn table<P: QType, T: QType, const N: usize>(step: P) -> [T; N] {
+        ///     let mut phase = P::ZERO;
+        ///     core::array::from_fn(|_| {
+        ///         let s = phase.sin_turns(Rounding::NearestTiesEven, Overflow::Saturate);
+        ///         phase = phase.wrapping_add(step);
+        ///         s
+        ///     })
+        /// }
+        /// let t: [Q<0, 15>; 4] = table(UQ::<0, 8>::from_bits(64)); // quarter turns
+        /// assert_eq!(t.map(|s| s.to_bits()), [0, 32767, 0, -32768]);
+        /// ```
+        pub trait QFunctions: QType {$(
+            /// See the method of the same name on [`Sq`](crate::Sq).
+            ///
+            /// # Panics
+            /// On a domain error, or with [`Overflow::Panic`] if the result
+            /// does not fit.
+            #[inline]
+            #[track_caller]
+            fn $f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding, overflow: Overflow) -> T {
+                match $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding) {
+                    Ok(f) => T::from_bits_in_range(f.resolve(T::FORMAT, overflow)),
+                    Err(e) => domain_panic(e),
+                }
+            }
+
+            /// Like the form without `try_`, with a [`FunctionError`]
+            /// instead of a panic or an overflow mode.
+            #[inline]
+            fn $try_f<T: QType>(self, $($arg: impl QType,)? rounding: Rounding) -> Result<T, FunctionError> {
+                let f = $m::$k::<T::Storage>(self.to_value(), $($arg.to_value(),)? T::FORMAT, rounding)?;
+                Ok(T::from_bits_in_range(f.checked(T::FORMAT)?))
+            }
+        )*}
+    };
+}
+
+function_list!(trait_fns);
+
+impl<T: QType> QFunctions for T {}

@@ -15,7 +15,7 @@ use rug::{Float, Integer, Rational};
 // reach the shared helpers.
 #[allow(clippy::duplicate_mod)]
 #[path = "common.rs"]
-mod common;
+pub mod common;
 pub use common::{exact, wide_to_integer};
 
 /// Working precision of the references: far beyond any format's needs.

@@ -11,6 +11,7 @@ mod compile_fail;
 mod convert;
 mod exhaustive;
 mod families;
+mod fastpath;
 mod functions;
 mod nostd;
 mod references;
