@@ -1,6 +1,7 @@
 //! Run the analysis once on a generated datapath, for profilers:
 //! `cargo run --release -p qbound-report --example analysis_profile -- fir_bank 100000`
-//! (shapes: fir_bank, long_fir, random_blocks, decaying_cascade; see
+//! (shapes: fir_bank, long_fir, random_blocks, decaying_cascade, recursion,
+//! balanced_tree; see
 //! `benches/shapes/mod.rs`). Under `valgrind --tool=callgrind` the instruction
 //! count is a load-independent measure of the analysis' cost.
 
@@ -22,7 +23,10 @@ fn main() {
     if args.next().as_deref() == Some("dump") {
         // Every node's bound, for comparing two versions of the analysis.
         for (i, n) in a.nodes.iter().enumerate() {
-            println!("{i} [{}, {}]", n.error.lo, n.error.hi);
+            println!(
+                "{i} ideal [{}, {}] actual [{}, {}] error [{}, {}]",
+                n.ideal.lo, n.ideal.hi, n.actual.lo, n.actual.hi, n.error.lo, n.error.hi
+            );
         }
     }
     let worst = a

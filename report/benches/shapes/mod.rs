@@ -159,7 +159,7 @@ pub fn random_blocks(n: usize) -> Datapath {
             } else {
                 InputKind::Quantized(Rounding::ALL[rng.random_range(0..Rounding::ALL.len())])
             };
-            let hi = Num::dyadic(rng.random_range(1..8), -2);
+            let hi = Num::dyadic(i128::from(rng.random_range(1..8u32)), -2);
             let lo = -hi.clone();
             pool.push(
                 b.input(&format!("b{j}_x{k}"), narrow, lo, hi, kind)
