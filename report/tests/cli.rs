@@ -767,3 +767,105 @@ fn test_vectors_of_wide_formats() {
             == 100
     );
 }
+
+// ---------------------------------------------------------------- robustness
+
+#[test]
+fn empty_files_and_encodings() {
+    let dir = tempfile::tempdir().unwrap();
+    // Nothing but comments and blanks: an error, for audit and check alike.
+    let empty = write(dir.path(), "empty.q", "# only a comment\n\n   \n");
+    for cmd in ["audit", "check"] {
+        qbound()
+            .arg(cmd)
+            .arg(&empty)
+            .assert()
+            .code(2)
+            .stderr(predicate::str::contains("holds no statement"));
+    }
+    // A bad byte on line 2, column 7 (after `input ` on that line).
+    let bad = dir.path().join("bad.q");
+    let mut bytes = b"# comment\ninput \xe9x : Q0.7 in [0, 0.5]\n".to_vec();
+    bytes.extend_from_slice(b"output x\n");
+    std::fs::write(&bad, bytes).unwrap();
+    qbound()
+        .arg("audit")
+        .arg(&bad)
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("bad.q:2:7: not UTF-8").and(predicate::str::contains("0xe9")));
+    // A UTF-8 byte-order mark is accepted.
+    let bom = dir.path().join("bom.q");
+    std::fs::write(
+        &bom,
+        "\u{feff}input x : Q0.7 in [0, 0.5]\noutput x\n".as_bytes(),
+    )
+    .unwrap();
+    qbound()
+        .args(["audit", "--vectors", "0"])
+        .arg(&bom)
+        .assert()
+        .success();
+}
+
+#[test]
+fn json_streams_the_same_document() {
+    for d in DEMOS {
+        let path = parse(&std::fs::read_to_string(demo(d)).unwrap()).unwrap();
+        let report = analyze(&path).report(&path);
+        let mut streamed = Vec::new();
+        report.write_json(&mut streamed).unwrap();
+        assert_eq!(String::from_utf8(streamed).unwrap(), report.to_json(), "{d}");
+    }
+}
+
+#[test]
+fn vectors_stream_and_warn_about_panicking_rows() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = write(
+        dir.path(),
+        "p.q",
+        "input x : Q3.4 in [-8, 7.9375]\nlet y = rescale(x, Q1.4, floor, panic)\noutput y\n",
+    );
+    let out = dir.path().join("tv");
+    qbound()
+        .args(["vectors", "--count", "20000", "--seed", "3", "--out-dir"])
+        .arg(&out)
+        .arg(&file)
+        .assert()
+        .success()
+        .stderr(predicate::str::contains("overflow mode is `panic` overflowed"));
+    let csv = std::fs::read_to_string(out.join("vectors.csv")).unwrap();
+    assert_eq!(csv.lines().count(), 20_001);
+    let hex = std::fs::read_to_string(out.join("y.hex")).unwrap();
+    assert_eq!(hex.lines().count(), 20_000);
+}
+
+/// Ctrl-C (SIGINT) stops a long simulation after its current batch; the
+/// report of what was measured is written and the status is 130.
+#[cfg(unix)]
+#[test]
+fn ctrl_c_stops_a_long_simulation_cleanly() {
+    use std::process::{Command as Std, Stdio};
+    let bin = assert_cmd::cargo::cargo_bin("qbound");
+    let child = Std::new(bin)
+        .args(["audit", "--format", "json", "--vectors", "1000000000000", "--quiet"])
+        .arg(demo("vibration_fir"))
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    std::thread::sleep(std::time::Duration::from_millis(1500));
+    let sent = Std::new("kill")
+        .args(["-INT", &child.id().to_string()])
+        .status()
+        .unwrap();
+    assert!(sent.success());
+    let out = child.wait_with_output().unwrap();
+    assert_eq!(out.status.code(), Some(130), "{}", String::from_utf8_lossy(&out.stderr));
+    let r: Report = serde_json::from_slice(&out.stdout).expect("a complete report");
+    let s = r.simulation.expect("simulation summary");
+    assert!(s.interrupted);
+    assert!(s.random_vectors > 0 && s.random_vectors < s.random_vectors_requested);
+    assert!(String::from_utf8_lossy(&out.stderr).contains("interrupted"));
+}
