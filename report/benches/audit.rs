@@ -53,13 +53,7 @@ fn simulation(c: &mut Criterion) {
     let path = fir_bank(1_000);
     let sim = Simulator::new(&path);
     let inputs: Vec<_> = (0..sim.inputs().len())
-        .map(|k| {
-            sim.input_value(
-                k,
-                Num::dyadic(((k as i128 * 7919) % 65536) - 32768, -15),
-                0,
-            )
-        })
+        .map(|k| sim.input_value(k, Num::dyadic(((k as i128 * 7919) % 65536) - 32768, -15), 0))
         .collect();
     let nodes = path.nodes().len() as u64;
     let mut g = c.benchmark_group("simulation");

@@ -65,9 +65,7 @@ pub use analysis::{Analysis, AnalysisOptions, analyze, analyze_with};
 pub use arith::{Interval, Num, parse_decimal};
 pub use choose::describe;
 pub use model::parse::{ParseError, parse};
-pub use model::{
-    Budget, Builder, Datapath, InputKind, ModelError, Node, NodeId, Op, Output, Span,
-};
+pub use model::{Budget, Builder, Datapath, InputKind, ModelError, Node, NodeId, Op, Output, Span};
 pub use simulate::vectors;
 pub use simulate::{InputValue, SimulationError, SimulationOptions, Simulator};
 pub use verdict::{Report, gate};

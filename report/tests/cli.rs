@@ -788,12 +788,9 @@ fn empty_files_and_encodings() {
     let mut bytes = b"# comment\ninput \xe9x : Q0.7 in [0, 0.5]\n".to_vec();
     bytes.extend_from_slice(b"output x\n");
     std::fs::write(&bad, bytes).unwrap();
-    qbound()
-        .arg("audit")
-        .arg(&bad)
-        .assert()
-        .code(2)
-        .stderr(predicate::str::contains("bad.q:2:7: not UTF-8").and(predicate::str::contains("0xe9")));
+    qbound().arg("audit").arg(&bad).assert().code(2).stderr(
+        predicate::str::contains("bad.q:2:7: not UTF-8").and(predicate::str::contains("0xe9")),
+    );
     // A UTF-8 byte-order mark is accepted.
     let bom = dir.path().join("bom.q");
     std::fs::write(
@@ -815,7 +812,11 @@ fn json_streams_the_same_document() {
         let report = analyze(&path).report(&path);
         let mut streamed = Vec::new();
         report.write_json(&mut streamed).unwrap();
-        assert_eq!(String::from_utf8(streamed).unwrap(), report.to_json(), "{d}");
+        assert_eq!(
+            String::from_utf8(streamed).unwrap(),
+            report.to_json(),
+            "{d}"
+        );
     }
 }
 
@@ -834,7 +835,9 @@ fn vectors_stream_and_warn_about_panicking_rows() {
         .arg(&file)
         .assert()
         .success()
-        .stderr(predicate::str::contains("overflow mode is `panic` overflowed"));
+        .stderr(predicate::str::contains(
+            "overflow mode is `panic` overflowed",
+        ));
     let csv = std::fs::read_to_string(out.join("vectors.csv")).unwrap();
     assert_eq!(csv.lines().count(), 20_001);
     let hex = std::fs::read_to_string(out.join("y.hex")).unwrap();
@@ -849,7 +852,14 @@ fn ctrl_c_stops_a_long_simulation_cleanly() {
     use std::process::{Command as Std, Stdio};
     let bin = assert_cmd::cargo::cargo_bin("qbound");
     let child = Std::new(bin)
-        .args(["audit", "--format", "json", "--vectors", "1000000000000", "--quiet"])
+        .args([
+            "audit",
+            "--format",
+            "json",
+            "--vectors",
+            "1000000000000",
+            "--quiet",
+        ])
         .arg(demo("vibration_fir"))
         .stdout(Stdio::piped())
         .stderr(Stdio::piped())
@@ -862,7 +872,12 @@ fn ctrl_c_stops_a_long_simulation_cleanly() {
         .unwrap();
     assert!(sent.success());
     let out = child.wait_with_output().unwrap();
-    assert_eq!(out.status.code(), Some(130), "{}", String::from_utf8_lossy(&out.stderr));
+    assert_eq!(
+        out.status.code(),
+        Some(130),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
     let r: Report = serde_json::from_slice(&out.stdout).expect("a complete report");
     let s = r.simulation.expect("simulation summary");
     assert!(s.interrupted);

@@ -275,7 +275,9 @@ pub fn recursion(n: usize) -> Datapath {
             .unwrap();
         let p = b.mul(y, c).unwrap();
         let t = b.add(p, x).unwrap();
-        y = b.rescale(t, q7, Rounding::Floor, Overflow::Saturate).unwrap();
+        y = b
+            .rescale(t, q7, Rounding::Floor, Overflow::Saturate)
+            .unwrap();
         k += 1;
     }
     b.output("y", y, None).unwrap();

@@ -87,7 +87,13 @@ impl Source {
         let name = path.label(self.node);
         let f = nd.format;
         match (&nd.op, self.kind) {
-            (Op::Input { kind: InputKind::Quantized(m), .. }, SourceKind::InputQuantization) => {
+            (
+                Op::Input {
+                    kind: InputKind::Quantized(m),
+                    ..
+                },
+                SourceKind::InputQuantization,
+            ) => {
                 format!("quantization of input {name} ({} into {f})", m.name())
             }
             (Op::Input { .. }, _) => format!("saturation of input {name}"),
@@ -105,7 +111,10 @@ impl Source {
                 SourceKind::Rounding => format!(
                     "rounding at {name} ({}, {} bits dropped)",
                     rounding.name(),
-                    path.node(*src).format.frac_bits().saturating_sub(f.frac_bits())
+                    path.node(*src)
+                        .format
+                        .frac_bits()
+                        .saturating_sub(f.frac_bits())
                 ),
                 SourceKind::Wrap => format!("wrap-around at {name} ({})", overflow.name()),
                 _ => format!("saturation at {name} ({})", overflow.name()),
@@ -591,13 +600,7 @@ impl Form {
         if let Some(old) = prev {
             self.add_term_sums(&old, false, prec);
             let c = old.coef.add_round(&coef, prec);
-            let nt = Form::new_term(
-                c,
-                old.gm + gm,
-                old.gv + gv,
-                owners.source(s, sources),
-                prec,
-            );
+            let nt = Form::new_term(c, old.gm + gm, old.gv + gv, owners.source(s, sources), prec);
             self.add_term_sums(&nt, true, prec);
             if consumed {
                 *owners.count_mut(s) -= 1;

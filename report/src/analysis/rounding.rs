@@ -69,12 +69,8 @@ pub fn rounding_interval(mode: Rounding, q0: &Num, q: &Num, sign: Sign) -> Inter
         (Rounding::NearestTiesUp, _) | (Rounding::NearestTiesAway, Sign::NonNegative) => {
             Interval::new(-&half_in, half)
         }
-        (Rounding::NearestTiesAway, Sign::NonPositive) => {
-            Interval::new(-&half, half_in)
-        }
-        (Rounding::NearestTiesAway | Rounding::NearestTiesEven, _) => {
-            Interval::new(-&half, half)
-        }
+        (Rounding::NearestTiesAway, Sign::NonPositive) => Interval::new(-&half, half_in),
+        (Rounding::NearestTiesAway | Rounding::NearestTiesEven, _) => Interval::new(-&half, half),
     }
 }
 
@@ -122,4 +118,3 @@ pub fn rounding_moments(mode: Rounding, q0: f64, q: f64, p_neg: f64) -> (f64, f6
         Rounding::Stochastic(_) => (0.0, (q * q - q0 * q0) / 6.0),
     }
 }
-

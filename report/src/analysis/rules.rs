@@ -12,9 +12,7 @@ use super::form::{Form, Owners, Source, SourceKind};
 use super::rounding::{Sign, rounding_interval, rounding_moments};
 use super::value::{Symbol, ValForm};
 use super::{Analysis, AnalysisOptions, NodeAnalysis, OverflowInfo};
-use crate::arith::{
-    Interval, Num, ceil_to_grid, floor_to_grid, format_range, round_to_grid, ulp,
-};
+use crate::arith::{Interval, Num, ceil_to_grid, floor_to_grid, format_range, round_to_grid, ulp};
 use crate::model::{Datapath, InputKind, NodeId, Op};
 
 /// The working state of one analysis: the forms of nodes that still have
@@ -102,7 +100,9 @@ impl Work {
             )
         } else {
             let f = self.forms[x.0].as_mut().expect("form of a used node");
-            let v = self.vforms[x.0].as_mut().expect("value form of a used node");
+            let v = self.vforms[x.0]
+                .as_mut()
+                .expect("value form of a used node");
             (
                 f.copy(self.max_terms, &mut self.owners),
                 v.copy(self.max_terms, &self.syms),
@@ -428,12 +428,7 @@ fn mul(a: &Analysis, w: &mut Work, x: NodeId, y: NodeId) -> Step {
     if both {
         let m = nx.err_mean * ny.err_mean;
         let e2 = (nx.err_var + nx.err_mean.powi(2)) * (ny.err_var + ny.err_mean.powi(2));
-        form.add_rem(
-            &nx.error.mul(&ny.error),
-            m,
-            (e2 - m * m).max(0.0),
-            w.prec,
-        );
+        form.add_rem(&nx.error.mul(&ny.error), m, (e2 - m * m).max(0.0), w.prec);
     }
     Step::plain(ideal, actual, form, vform)
 }
@@ -604,16 +599,8 @@ fn clamp_step(
     // Saturate, symmetric saturate, and panic (analysed as saturating: the
     // run that would panic is reported as an error, the others are bounded).
     // σ = clamp(u) - u: in [max - u.hi, 0] above, [0, min - u.lo] below.
-    let s_lo = if above {
-        &limits.hi - &u.hi
-    } else {
-        Num::ZERO
-    };
-    let s_hi = if below {
-        &limits.lo - &u.lo
-    } else {
-        Num::ZERO
-    };
+    let s_lo = if above { &limits.hi - &u.hi } else { Num::ZERO };
+    let s_hi = if below { &limits.lo - &u.lo } else { Num::ZERO };
     let sat = s_hi.clone().max(-&s_lo);
     let mut c_lo = pre_err.lo.clone();
     let mut c_hi = pre_err.hi.clone();

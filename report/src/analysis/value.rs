@@ -329,8 +329,7 @@ impl ValForm {
         if self.terms.len() <= max {
             return;
         }
-        let mut keyed: Vec<(Num, usize)> =
-            self.terms.iter().map(|(k, a)| (a.abs(), *k)).collect();
+        let mut keyed: Vec<(Num, usize)> = self.terms.iter().map(|(k, a)| (a.abs(), *k)).collect();
         keyed.sort_by(|a, b| b.0.cmp(&a.0));
         let gone = keyed.drain(max.div_ceil(2)..).map(|(_, k)| k).collect();
         self.fold(gone, syms);

@@ -176,4 +176,3 @@ pub fn num_sig(x: f64, sig: u32) -> String {
         }
     }
 }
-

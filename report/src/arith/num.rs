@@ -291,7 +291,11 @@ impl Num {
     /// `|self|`.
     #[must_use]
     pub fn abs(&self) -> Num {
-        if self.is_negative() { -self } else { self.clone() }
+        if self.is_negative() {
+            -self
+        } else {
+            self.clone()
+        }
     }
 
     /// `self · 2^k` (exact).
@@ -339,7 +343,11 @@ impl Num {
             },
         ) = (&a.0, &b.0)
         {
-            let mb = if negate_b { mb.checked_neg() } else { Some(*mb) };
+            let mb = if negate_b {
+                mb.checked_neg()
+            } else {
+                Some(*mb)
+            };
             if let Some(mb) = mb {
                 if let Some(r) = add_small(*ma, *a2, *a5, mb, *b2, *b5) {
                     return r;
@@ -379,11 +387,7 @@ impl Num {
                 return if e5 < 0 && (*a5 == 0 || *b5 == 0) {
                     Num::from_small(m, a2 + b2, e5)
                 } else {
-                    Num(Repr::Small {
-                        m,
-                        e2: a2 + b2,
-                        e5,
-                    })
+                    Num(Repr::Small { m, e2: a2 + b2, e5 })
                 };
             }
         }
@@ -454,7 +458,12 @@ impl Num {
     /// if `u` is not a unit.
     #[must_use]
     pub fn div_unit(&self, u: &Num) -> Option<Num> {
-        let Repr::Small { m: um, e2: u2, e5: u5 } = u.0 else {
+        let Repr::Small {
+            m: um,
+            e2: u2,
+            e5: u5,
+        } = u.0
+        else {
             return None;
         };
         if um != 1 && um != -1 {
@@ -818,7 +827,11 @@ fn shr_dir(m: M, s: u64, dir: Direction) -> M {
         M::S(x) if s < 127 => {
             let q = x >> s;
             let exact = (q << s) == x;
-            M::S(if dir == Direction::Up && !exact { q + 1 } else { q })
+            M::S(if dir == Direction::Up && !exact {
+                q + 1
+            } else {
+                q
+            })
         }
         m => {
             let x = m.big();
@@ -953,7 +966,11 @@ fn add_round_small(ma: i128, a2: i64, mb: i128, b2: i64, prec: u32, dir: Directi
     let away = matches!((neg, dir), (false, Direction::Up) | (true, Direction::Down));
     let q = if inexact && away { q + 1 } else { q };
     let m = q as i128;
-    Some(Num::from_small(if neg { -m } else { m }, e + i64::from(s), 0))
+    Some(Num::from_small(
+        if neg { -m } else { m },
+        e + i64::from(s),
+        0,
+    ))
 }
 
 /// `(hi, lo) >> s` for `0 < s < 256` whose result fits a `u128`, and

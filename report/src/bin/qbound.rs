@@ -320,7 +320,8 @@ fn run_report(
         progress: Some(&progress),
         stop: Some(&STOP),
     };
-    let sim = simulate::run(path, &analysis, &opts, control).map_err(|e| Failure::Bug(e.to_string()));
+    let sim =
+        simulate::run(path, &analysis, &opts, control).map_err(|e| Failure::Bug(e.to_string()));
     bar.finish_and_clear();
     let sim = sim?;
     let interrupted = sim.summary.interrupted;

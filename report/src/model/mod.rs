@@ -31,8 +31,8 @@ pub mod parse;
 
 use std::fmt;
 
-use qbound::{Format, Overflow, Rounding};
 use crate::arith::{Num, ceil_to_grid, floor_to_grid, format_range, round_to_grid};
+use qbound::{Format, Overflow, Rounding};
 
 /// The index of a node in its [`Datapath`].
 #[derive(

@@ -5,9 +5,9 @@
 use std::collections::HashMap;
 use std::fmt;
 
-use qbound::{Format, Overflow, Rounding};
 use crate::arith::{Num, parse_decimal};
 use crate::model::{Budget, Builder, Datapath, InputKind, ModelError, NodeId, Span};
+use qbound::{Format, Overflow, Rounding};
 
 /// The longest input accepted (bytes); longer text is refused with an
 /// error rather than risk unbounded work.

@@ -5,8 +5,8 @@
 use std::fmt::Write as _;
 
 use super::{format_limits, headroom_text, num, value_range};
-use crate::verdict::{NodeReport, OutputReport, SourceKind};
 use crate::simulate::ErrorHistogram;
+use crate::verdict::{NodeReport, OutputReport, SourceKind};
 
 /// Escape text for XML content and attribute values.
 ///

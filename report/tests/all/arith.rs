@@ -25,7 +25,11 @@ fn pair(m: &Integer, e2: i32, e10: i32) -> (Num, Rational) {
         r >> e2.unsigned_abs()
     };
     let p10 = Rational::from(Integer::from(Integer::u_pow_u(10, e10.unsigned_abs())));
-    if e10 >= 0 { r *= p10 } else { r /= p10 }
+    if e10 >= 0 {
+        r *= p10
+    } else {
+        r /= p10
+    }
     (n, r)
 }
 
@@ -34,9 +38,8 @@ fn mantissa() -> impl Strategy<Value = Integer> {
     prop_oneof![
         any::<i64>().prop_map(Integer::from),
         any::<i128>().prop_map(Integer::from),
-        (any::<i128>(), any::<u128>(), 0u32..3).prop_map(|(h, l, k)| {
-            (Integer::from(h) << (128 * k)) + l
-        }),
+        (any::<i128>(), any::<u128>(), 0u32..3)
+            .prop_map(|(h, l, k)| { (Integer::from(h) << (128 * k)) + l }),
         Just(Integer::from(i128::MIN)),
         Just(Integer::from(i128::MAX)),
         Just(Integer::from(0)),
@@ -56,7 +59,10 @@ fn msb(x: &Rational) -> i64 {
         if e >= 0 {
             Rational::from(Integer::from(1) << u32::try_from(e).unwrap())
         } else {
-            Rational::from((Integer::from(1), Integer::from(1) << u32::try_from(-e).unwrap()))
+            Rational::from((
+                Integer::from(1),
+                Integer::from(1) << u32::try_from(-e).unwrap(),
+            ))
         }
     };
     while pow(e) > a {
@@ -81,7 +87,11 @@ fn directed(x: &Rational, r: &Num, prec: u32, dir: Direction) -> Result<(), Test
     if rr == *x {
         return Ok(());
     }
-    prop_assert!(r.mantissa_bits() <= u64::from(prec), "{} bits", r.mantissa_bits());
+    prop_assert!(
+        r.mantissa_bits() <= u64::from(prec),
+        "{} bits",
+        r.mantissa_bits()
+    );
     // |x - r| < 2^(msb(x) - prec + 2): within a unit of the last place
     // (one place of slack for a carry into a new top bit).
     let gap = Rational::from(&rr - x).abs();
@@ -89,7 +99,10 @@ fn directed(x: &Rational, r: &Num, prec: u32, dir: Direction) -> Result<(), Test
     let unit = if e >= 0 {
         Rational::from(Integer::from(1) << u32::try_from(e).unwrap())
     } else {
-        Rational::from((Integer::from(1), Integer::from(1) << u32::try_from(-e).unwrap()))
+        Rational::from((
+            Integer::from(1),
+            Integer::from(1) << u32::try_from(-e).unwrap(),
+        ))
     };
     prop_assert!(gap < unit, "rounding error {gap} not below {unit}");
     Ok(())
@@ -219,7 +232,13 @@ fn grid_rounding_matches_the_definitions() {
     // Decimals, ties and dyadics with more fraction bits, both signs.
     let mut values: Vec<(Num, Rational)> = Vec::new();
     for p in -40i64..=40 {
-        for (m, e2, e10) in [(p, -3, 0), (p, -2, 0), (p, 0, -1), (p, 0, -2), (p * 3, -5, -1)] {
+        for (m, e2, e10) in [
+            (p, -3, 0),
+            (p, -2, 0),
+            (p, 0, -1),
+            (p, 0, -2),
+            (p * 3, -5, -1),
+        ] {
             values.push(pair(&Integer::from(m), e2, e10));
         }
     }
@@ -232,23 +251,41 @@ fn grid_rounding_matches_the_definitions() {
                     "{rx} to 2^-{frac} {mode:?}"
                 );
             }
-            assert_eq!(rat(&floor_to_grid(x, frac)), reference(rx, frac, Rounding::Floor));
-            assert_eq!(rat(&ceil_to_grid(x, frac)), reference(rx, frac, Rounding::Ceil));
+            assert_eq!(
+                rat(&floor_to_grid(x, frac)),
+                reference(rx, frac, Rounding::Floor)
+            );
+            assert_eq!(
+                rat(&ceil_to_grid(x, frac)),
+                reference(rx, frac, Rounding::Ceil)
+            );
         }
     }
     // IEEE 754-2019 §4.3.1 example of ties-to-even: 2.5 -> 2, 3.5 -> 4, -2.5 -> -2.
     for (v, want) in [("2.5", 2), ("3.5", 4), ("-2.5", -2)] {
         let x = parse_decimal(v).unwrap();
-        assert_eq!(round_to_grid(&x, 0, Rounding::NearestTiesEven), Num::from(want));
+        assert_eq!(
+            round_to_grid(&x, 0, Rounding::NearestTiesEven),
+            Num::from(want)
+        );
     }
 }
 
 /// Every value of small formats converts to a `Num` and back unchanged.
 #[test]
 fn qvalues_round_trip_exhaustively() {
-    for (signed, int, frac) in [(true, 0, 0), (false, 1, 0), (true, 3, 4), (false, 0, 7), (true, 0, 7)] {
+    for (signed, int, frac) in [
+        (true, 0, 0),
+        (false, 1, 0),
+        (true, 3, 4),
+        (false, 0, 7),
+        (true, 0, 7),
+    ] {
         let f = Format::new(signed, int, frac).unwrap();
-        let (lo, hi) = (f.min_bits().to_i128().unwrap(), f.max_bits().to_i128().unwrap());
+        let (lo, hi) = (
+            f.min_bits().to_i128().unwrap(),
+            f.max_bits().to_i128().unwrap(),
+        );
         for b in lo..=hi {
             let v = qbound::QValue::from_i128_bits(f, b).unwrap();
             let n = qvalue_to_num(v);
@@ -257,7 +294,11 @@ fn qvalues_round_trip_exhaustively() {
         }
     }
     // 128-bit extremes.
-    for f in [Format::signed(0, 127).unwrap(), Format::unsigned(128, 0).unwrap(), Format::unsigned(0, 128).unwrap()] {
+    for f in [
+        Format::signed(0, 127).unwrap(),
+        Format::unsigned(128, 0).unwrap(),
+        Format::unsigned(0, 128).unwrap(),
+    ] {
         for v in [qbound::QValue::min(f), qbound::QValue::max(f)] {
             assert_eq!(num_to_qvalue(&qvalue_to_num(v), f), Some(v));
         }

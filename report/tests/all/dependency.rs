@@ -11,7 +11,10 @@ fn node<'a>(r: &'a qbound_report::Report, label: &str) -> &'a qbound_report::ver
 }
 
 fn range(n: &qbound_report::verdict::NodeReport) -> (Rational, Rational) {
-    (n.actual_range.lo.rational().unwrap(), n.actual_range.hi.rational().unwrap())
+    (
+        n.actual_range.lo.rational().unwrap(),
+        n.actual_range.hi.rational().unwrap(),
+    )
 }
 
 #[test]

@@ -193,10 +193,13 @@ fn folded_terms_still_cancel_where_paths_meet() {
     text.push_str(&format!("let y = {}\n", sum.join(" + ")));
     text.push_str("let w = (y + y) - y\noutput y\noutput w\n");
     let path = qbound_report::parse(&text).unwrap();
-    let a = qbound_report::analyze_with(&path, &qbound_report::AnalysisOptions {
-        max_terms: 4,
-        ..Default::default()
-    });
+    let a = qbound_report::analyze_with(
+        &path,
+        &qbound_report::AnalysisOptions {
+            max_terms: 4,
+            ..Default::default()
+        },
+    );
     let y = &a.nodes[path.outputs()[0].node.0].error;
     let w = &a.nodes[path.outputs()[1].node.0].error;
     assert_eq!((rat(&y.lo), rat(&y.hi)), (q(-10, 32), q(10, 32)));

@@ -61,9 +61,27 @@ fn compare_with(name: &str, path: &Datapath, enclose: bool) -> (Analysis, Analys
         let f = path.nodes()[i].format;
         let range = qbound_report::arith::format_range(f).max_abs().to_f64();
         let ulp = qbound_report::arith::ulp(f).to_f64();
-        close(&format!("{name} node {i} ideal"), &e.ideal, &r.ideal, range, enclose);
-        close(&format!("{name} node {i} actual"), &e.actual, &r.actual, range, enclose);
-        close(&format!("{name} node {i} error"), &e.error, &r.error, ulp, enclose);
+        close(
+            &format!("{name} node {i} ideal"),
+            &e.ideal,
+            &r.ideal,
+            range,
+            enclose,
+        );
+        close(
+            &format!("{name} node {i} actual"),
+            &e.actual,
+            &r.actual,
+            range,
+            enclose,
+        );
+        close(
+            &format!("{name} node {i} error"),
+            &e.error,
+            &r.error,
+            ulp,
+            enclose,
+        );
     }
     (exact, rounded)
 }
@@ -91,7 +109,11 @@ fn demos_and_examples_are_exact_at_the_default_precision() {
         let (exact, rounded) = compare(name, &path);
         // Their numbers are short: nothing is rounded at all.
         for (e, r) in exact.nodes.iter().zip(&rounded.nodes) {
-            assert_eq!((&e.ideal, &e.actual, &e.error), (&r.ideal, &r.actual, &r.error), "{name}");
+            assert_eq!(
+                (&e.ideal, &e.actual, &e.error),
+                (&r.ideal, &r.actual, &r.error),
+                "{name}"
+            );
         }
     }
 }
@@ -109,8 +131,14 @@ fn deep_recursions_round_and_stay_sound() {
             .max()
             .unwrap()
     };
-    assert!(bits(&exact) > 300, "the exact analysis should need long numbers");
-    assert!(bits(&rounded) <= 2 * 130, "the rounded analysis keeps numbers short");
+    assert!(
+        bits(&exact) > 300,
+        "the exact analysis should need long numbers"
+    );
+    assert!(
+        bits(&rounded) <= 2 * 130,
+        "the rounded analysis keeps numbers short"
+    );
     let path = shapes::decaying_cascade(1500);
     compare("decaying_cascade", &path);
 }
@@ -158,12 +186,15 @@ fn random_datapaths_stay_close_to_exact() {
     // 64 cases by default, PROPTEST_CASES for long runs.
     let mut runner = proptest::test_runner::TestRunner::new(crate::common::cases(64));
     runner
-        .run(&crate::property::strategy(), |(inputs, consts, steps, _)| {
-            if let Some(path) = crate::property::build(&inputs, &consts, &steps) {
-                compare_with("random", &path, false);
-            }
-            Ok(())
-        })
+        .run(
+            &crate::property::strategy(),
+            |(inputs, consts, steps, _)| {
+                if let Some(path) = crate::property::build(&inputs, &consts, &steps) {
+                    compare_with("random", &path, false);
+                }
+                Ok(())
+            },
+        )
         .unwrap();
 }
 
@@ -175,7 +206,8 @@ fn every_input_vector_lies_in_the_bounds() {
     use proptest::prelude::*;
     use qbound_report::Simulator;
     use qbound_report::arith::qvalue_to_num;
-    let small = (any::<bool>(), 0u32..3, 0u32..4).prop_filter("non-empty", |&(s, i, f)| s || i + f > 0);
+    let small =
+        (any::<bool>(), 0u32..3, 0u32..4).prop_filter("non-empty", |&(s, i, f)| s || i + f > 0);
     let inputs = prop::collection::vec(
         (small, (any::<u16>(), any::<u16>()), Just(None::<usize>)),
         1..3,
@@ -192,7 +224,10 @@ fn every_input_vector_lies_in_the_bounds() {
             let Some(path) = crate::property::build(&inputs, &consts, &steps) else {
                 return Ok(());
             };
-            let analyses = [analyze_with(&path, &AnalysisOptions::default()), analyze_with(&path, &opts(10))];
+            let analyses = [
+                analyze_with(&path, &AnalysisOptions::default()),
+                analyze_with(&path, &opts(10)),
+            ];
             let sim = Simulator::new(&path);
             let sampler = qbound_report::simulate::Sampler::new(&path);
             let n_in = sampler.input_count();
@@ -220,9 +255,25 @@ fn every_input_vector_lies_in_the_bounds() {
                     for (i, n) in a.nodes.iter().enumerate() {
                         let actual = qvalue_to_num(fixed[i]);
                         let e = &actual - &exact[i];
-                        prop_assert!(n.ideal.contains(&exact[i]), "node {i} ideal {} outside [{}, {}]", exact[i], n.ideal.lo, n.ideal.hi);
-                        prop_assert!(n.actual.contains(&actual), "node {i} actual {actual} outside [{}, {}]", n.actual.lo, n.actual.hi);
-                        prop_assert!(n.error.contains(&e), "node {i} error {e} outside [{}, {}]", n.error.lo, n.error.hi);
+                        prop_assert!(
+                            n.ideal.contains(&exact[i]),
+                            "node {i} ideal {} outside [{}, {}]",
+                            exact[i],
+                            n.ideal.lo,
+                            n.ideal.hi
+                        );
+                        prop_assert!(
+                            n.actual.contains(&actual),
+                            "node {i} actual {actual} outside [{}, {}]",
+                            n.actual.lo,
+                            n.actual.hi
+                        );
+                        prop_assert!(
+                            n.error.contains(&e),
+                            "node {i} error {e} outside [{}, {}]",
+                            n.error.lo,
+                            n.error.hi
+                        );
                     }
                 }
                 // Next vector.

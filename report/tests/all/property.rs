@@ -51,7 +51,8 @@ pub fn step() -> impl Strategy<Value = Step> {
 
 /// The random datapath generator: inputs, constants, steps, a seed.
 #[allow(clippy::type_complexity)]
-pub fn strategy() -> impl Strategy<Value = (Vec<InputSpec>, Vec<(i32, (bool, u32, u32))>, Vec<Step>, u64)> {
+pub fn strategy()
+-> impl Strategy<Value = (Vec<InputSpec>, Vec<(i32, (bool, u32, u32))>, Vec<Step>, u64)> {
     (
         prop::collection::vec(
             (
@@ -139,7 +140,6 @@ fn simulation_never_exceeds_the_bound() {
     let ratios = Mutex::new(Vec::<f64>::new());
     let strategy = strategy();
     let result = runner.run(&strategy, |(inputs, consts, steps, seed)| {
-
         let Some(path) = build(&inputs, &consts, &steps) else {
             return Ok(());
         };
