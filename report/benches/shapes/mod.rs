@@ -251,28 +251,21 @@ pub fn recursion(n: usize) -> Datapath {
             Rounding::NearestTiesEven,
         )
         .unwrap();
-    let small = (Num::decimal(-5, -2), Num::decimal(5, -2));
-    let x0 = b
-        .input(
-            "x0",
+    // A real sample in [-0.05, 0.05], rounded to nearest into Q0.7.
+    let sample = |b: &mut Builder, name: &str| {
+        b.input(
+            name,
             q7,
-            small.0.clone(),
-            small.1.clone(),
+            Num::decimal(-5, -2),
+            Num::decimal(5, -2),
             InputKind::Quantized(Rounding::NearestTiesEven),
         )
-        .unwrap();
-    let mut y = x0;
+        .unwrap()
+    };
+    let mut y = sample(&mut b, "x0");
     let mut k = 1;
     while b.len() + 4 <= n {
-        let x = b
-            .input(
-                &format!("x{k}"),
-                q7,
-                small.0.clone(),
-                small.1.clone(),
-                InputKind::Quantized(Rounding::NearestTiesEven),
-            )
-            .unwrap();
+        let x = sample(&mut b, &format!("x{k}"));
         let p = b.mul(y, c).unwrap();
         let t = b.add(p, x).unwrap();
         y = b

@@ -305,21 +305,7 @@ fn input_quantized(
     let mut form = Form::source(s, &a.sources, &mut w.owners);
     let pre_err = form.interval(w.prec);
     let c = clamp_step(f, &fq.0, Overflow::Saturate, &u, &ideal, &pre_err);
-    if let Some((kind, eps)) = c.source {
-        let s2 = Work::add_source(
-            a,
-            w,
-            id,
-            NewSource {
-                kind,
-                eps,
-                mean: 0.0,
-                var: 0.0,
-            },
-        );
-        let f2 = Form::source(s2, &a.sources, &mut w.owners);
-        form = w.merge(form, f2, false, &a.sources);
-    }
+    form = clamp_source(a, w, id, &c, form);
     w.syms.push(Symbol {
         mean: 0.0,
         var: 1.0 / 3.0,
@@ -485,21 +471,7 @@ fn rescale(
     let fi = form.interval(w.prec);
     let pre_err = fi.intersect(&u.sub(&nx.ideal)).unwrap_or(fi);
     let c = clamp_step(f, &fq.0, mode, &u, &nx.ideal, &pre_err);
-    if let Some((kind, eps)) = c.source {
-        let s2 = Work::add_source(
-            a,
-            w,
-            id,
-            NewSource {
-                kind,
-                eps,
-                mean: 0.0,
-                var: 0.0,
-            },
-        );
-        let fs = Form::source(s2, &a.sources, &mut w.owners);
-        form = w.merge(form, fs, false, &a.sources);
-    }
+    form = clamp_source(a, w, id, &c, form);
     let nx = &a.nodes[src.0];
     Step {
         ideal: nx.ideal.clone(),
@@ -510,6 +482,26 @@ fn rescale(
         rounding_source,
         collapse: c.collapse,
     }
+}
+
+/// Add the saturation or wrap source of an overflow step, if it has one.
+fn clamp_source(a: &mut Analysis, w: &mut Work, id: NodeId, c: &Clamp, form: Form) -> Form {
+    let Some((kind, eps)) = &c.source else {
+        return form;
+    };
+    let s = Work::add_source(
+        a,
+        w,
+        id,
+        NewSource {
+            kind: *kind,
+            eps: eps.clone(),
+            mean: 0.0,
+            var: 0.0,
+        },
+    );
+    let fs = Form::source(s, &a.sources, &mut w.owners);
+    w.merge(form, fs, false, &a.sources)
 }
 
 fn fraction_negative(r: &Interval) -> f64 {

@@ -1112,35 +1112,17 @@ impl Default for Num {
     }
 }
 
-impl From<i64> for Num {
-    fn from(n: i64) -> Num {
-        Num::from_i128(i128::from(n))
-    }
+macro_rules! from_int {
+    ($($t:ty)*) => {$(
+        impl From<$t> for Num {
+            fn from(n: $t) -> Num {
+                Num::from_i128(i128::from(n))
+            }
+        }
+    )*};
 }
 
-impl From<i32> for Num {
-    fn from(n: i32) -> Num {
-        Num::from_i128(i128::from(n))
-    }
-}
-
-impl From<u32> for Num {
-    fn from(n: u32) -> Num {
-        Num::from_i128(i128::from(n))
-    }
-}
-
-impl From<u64> for Num {
-    fn from(n: u64) -> Num {
-        Num::from_i128(i128::from(n))
-    }
-}
-
-impl From<i128> for Num {
-    fn from(n: i128) -> Num {
-        Num::from_i128(n)
-    }
-}
+from_int!(i32 i64 u32 u64 i128);
 
 impl From<u128> for Num {
     fn from(n: u128) -> Num {
