@@ -1,6 +1,6 @@
 //! A day with qbound, in an invented scenario.
 //!
-//! Invented scenario (not real data): the "PV-3" pump vibration monitor
+//! Invented scenario (not real data): a pump-vibration monitor
 //! samples a MEMS accelerometer through a 16-bit ADC at 3.2 kHz. Full scale
 //! is ±16 g, so the samples are read as Q0.15 (−1.0 … +0.99997 of full
 //! scale). Before the peak detector, the firmware runs an 8-tap low-pass

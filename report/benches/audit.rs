@@ -69,7 +69,7 @@ fn simulation(c: &mut Criterion) {
 }
 
 fn full_audit(c: &mut Criterion) {
-    let text = include_str!("../examples/fir64.q");
+    let text = include_str!("../examples/fir64.qbdp");
     let path = parse(text).expect("fir64 parses");
     let mut g = c.benchmark_group("audit");
     g.sample_size(10);

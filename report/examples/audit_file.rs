@@ -1,5 +1,5 @@
 //! Parse an audit file, analyse and simulate it, print the report as JSON.
-//! `cargo run -p qbound-report --example audit_file -- path/to/file.q`
+//! `cargo run -p qbound-report --example audit_file -- path/to/file.qbdp`
 fn main() -> Result<(), Box<dyn std::error::Error>> {
     let path = std::env::args().nth(1).ok_or("usage: audit_file FILE")?;
     let text = std::fs::read_to_string(&path)?;

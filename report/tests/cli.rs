@@ -15,7 +15,7 @@ const DEMOS: &[&str] = &["load_cell", "motor_pi", "tone_power", "vibration_fir"]
 fn demo(name: &str) -> PathBuf {
     Path::new(env!("CARGO_MANIFEST_DIR"))
         .join("demos")
-        .join(format!("{name}.q"))
+        .join(format!("{name}.qbdp"))
 }
 
 fn qbound() -> Command {
@@ -221,14 +221,14 @@ fn malformed_file_shows_the_line_and_a_caret() {
     let dir = tempfile::tempdir().unwrap();
     let bad = write(
         dir.path(),
-        "bad.q",
+        "bad.qbdp",
         "input x : Q0.15 in [-1, 0.5]\nlet y = rescale(x, Q0.7, nearest-even, clamp)\noutput y\n",
     );
     let out = qbound().arg("audit").arg(&bad).output().unwrap();
     assert_eq!(out.status.code(), Some(2));
     let err = String::from_utf8(out.stderr).unwrap();
     assert!(err.starts_with("error: expected"), "{err}");
-    assert!(err.contains("bad.q:2:"), "{err}");
+    assert!(err.contains("bad.qbdp:2:"), "{err}");
     assert!(
         err.contains("2 | let y = rescale(x, Q0.7, nearest-even, clamp)"),
         "{err}"
@@ -249,7 +249,7 @@ fn malformed_file_shows_the_line_and_a_caret() {
 fn broken_inputs_give_status_2_and_say_what_to_do() {
     let dir = tempfile::tempdir().unwrap();
     qbound()
-        .args(["audit", "no/such/file.q"])
+        .args(["audit", "no/such/file.qbdp"])
         .assert()
         .code(2)
         .stderr(predicate::str::contains("no such file").and(predicate::str::contains("hint:")));
@@ -259,7 +259,7 @@ fn broken_inputs_give_status_2_and_say_what_to_do() {
         .assert()
         .code(2)
         .stderr(predicate::str::contains("not a directory"));
-    let bin = dir.path().join("bin.q");
+    let bin = dir.path().join("bin.qbdp");
     std::fs::write(&bin, [0xff, 0xfe, 0x00, 0x41]).unwrap();
     qbound()
         .arg("check")
@@ -283,7 +283,7 @@ fn broken_inputs_give_status_2_and_say_what_to_do() {
         .stderr(predicate::str::contains("is not a seed"));
     let wide = write(
         dir.path(),
-        "wide.q",
+        "wide.qbdp",
         "input a : Q63.0 in [0, 1]\ninput b : Q63.0 in [0, 1]\nlet p = a * b * a\noutput p\n",
     );
     qbound()
@@ -291,7 +291,7 @@ fn broken_inputs_give_status_2_and_say_what_to_do() {
         .arg(&wide)
         .assert()
         .code(2)
-        .stderr(predicate::str::contains("wide.q:3:").and(predicate::str::contains("^")));
+        .stderr(predicate::str::contains("wide.qbdp:3:").and(predicate::str::contains("^")));
     qbound()
         .args(["audit", "-o", "/no/such/dir/out.html"])
         .arg(demo("load_cell"))
@@ -332,7 +332,7 @@ fn check_fails_on_saturation_until_it_is_allowed() {
     let text = String::from_utf8(out.stdout).unwrap();
     let fails: Vec<&str> = text.lines().filter(|l| l.contains(": FAIL: ")).collect();
     assert_eq!(fails.len(), 2, "{text}");
-    assert!(fails[0].contains("motor_pi.q:22: FAIL: integ_next can saturate"));
+    assert!(fails[0].contains("motor_pi.qbdp:22: FAIL: integ_next can saturate"));
     assert!(fails[1].contains("duty can saturate"));
     assert!(text.contains("--allow-saturation duty"));
     assert!(text.ends_with("2 reasons to fail\n"));
@@ -365,7 +365,7 @@ fn check_fails_on_wrap_and_on_a_budget() {
     let dir = tempfile::tempdir().unwrap();
     let wrap = write(
         dir.path(),
-        "wrap.q",
+        "wrap.qbdp",
         "# two Q0.15 samples summed back into Q0.15 with wrap: can overflow\n\
          input a : Q0.15 in [-1, 0.5]\ninput b : Q0.15 in [-0.5, 0.5]\n\
          let s = rescale(a + b, Q0.15, floor, wrap)\noutput s\n",
@@ -376,11 +376,11 @@ fn check_fails_on_wrap_and_on_a_budget() {
         .assert()
         .code(1)
         .stdout(predicate::str::contains(
-            "wrap.q:4: FAIL: s can overflow Q0.15 and wraps",
+            "wrap.qbdp:4: FAIL: s can overflow Q0.15 and wraps",
         ));
     let budget = write(
         dir.path(),
-        "budget.q",
+        "budget.qbdp",
         "input a : Q0.15 in [-0.5, 0.5]\nlet y = rescale(a, Q0.7, floor, wrap)\noutput y budget 0.5 ulp\n",
     );
     qbound()
@@ -544,7 +544,7 @@ fn hex(x: &Rational, width: u32, frac: i32) -> String {
     format!("{:0w$x}", bits, w = width.div_ceil(4) as usize)
 }
 
-/// The datapath of each demo, written out by hand from its .q file:
+/// The datapath of each demo, written out by hand from its .qbdp file:
 /// inputs in CSV order to outputs with their (width, frac bits).
 fn reference(d: &str, x: &[Rational]) -> Vec<(Rational, u32, i32)> {
     match d {
@@ -698,7 +698,7 @@ fn vectors_refuse_stochastic_rounding() {
     let dir = tempfile::tempdir().unwrap();
     let f = write(
         dir.path(),
-        "st.q",
+        "st.qbdp",
         "input a : Q0.15 in [-1, 0.5]\nlet y = rescale(a, Q0.7, stochastic, saturate)\noutput y\n",
     );
     qbound()
@@ -717,7 +717,7 @@ fn test_vectors_of_wide_formats() {
     let dir = tempfile::tempdir().unwrap();
     let f = write(
         dir.path(),
-        "wide.q",
+        "wide.qbdp",
         "input a : Q0.120 in [-1, 0.5]\ninput b : UQ128.0 in [0, 340282366920938463463374607431768211455]\n\
          let c = rescale(a >> 3, Q3.60, nearest-away, saturate)\noutput c\noutput b\n",
     );
@@ -774,7 +774,7 @@ fn test_vectors_of_wide_formats() {
 fn empty_files_and_encodings() {
     let dir = tempfile::tempdir().unwrap();
     // Nothing but comments and blanks: an error, for audit and check alike.
-    let empty = write(dir.path(), "empty.q", "# only a comment\n\n   \n");
+    let empty = write(dir.path(), "empty.qbdp", "# only a comment\n\n   \n");
     for cmd in ["audit", "check"] {
         qbound()
             .arg(cmd)
@@ -784,15 +784,15 @@ fn empty_files_and_encodings() {
             .stderr(predicate::str::contains("holds no statement"));
     }
     // A bad byte on line 2, column 7 (after `input ` on that line).
-    let bad = dir.path().join("bad.q");
+    let bad = dir.path().join("bad.qbdp");
     let mut bytes = b"# comment\ninput \xe9x : Q0.7 in [0, 0.5]\n".to_vec();
     bytes.extend_from_slice(b"output x\n");
     std::fs::write(&bad, bytes).unwrap();
     qbound().arg("audit").arg(&bad).assert().code(2).stderr(
-        predicate::str::contains("bad.q:2:7: not UTF-8").and(predicate::str::contains("0xe9")),
+        predicate::str::contains("bad.qbdp:2:7: not UTF-8").and(predicate::str::contains("0xe9")),
     );
     // A UTF-8 byte-order mark is accepted.
-    let bom = dir.path().join("bom.q");
+    let bom = dir.path().join("bom.qbdp");
     std::fs::write(
         &bom,
         "\u{feff}input x : Q0.7 in [0, 0.5]\noutput x\n".as_bytes(),
@@ -825,7 +825,7 @@ fn vectors_stream_and_warn_about_panicking_rows() {
     let dir = tempfile::tempdir().unwrap();
     let file = write(
         dir.path(),
-        "p.q",
+        "p.qbdp",
         "input x : Q3.4 in [-8, 7.9375]\nlet y = rescale(x, Q1.4, floor, panic)\noutput y\n",
     );
     let out = dir.path().join("tv");

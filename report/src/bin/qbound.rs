@@ -214,7 +214,7 @@ fn read_datapath(file: &Path) -> Result<(String, Datapath), Failure> {
         Err(e) if e.kind() == io::ErrorKind::NotFound => {
             return Err(input_error(
                 &format!("cannot read {shown}: no such file"),
-                "give the path of an audit file, e.g. report/demos/load_cell.q",
+                "give the path of an audit file, e.g. report/demos/load_cell.qbdp",
             ));
         }
         Err(e) => {

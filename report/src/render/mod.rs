@@ -7,7 +7,7 @@
 //! let path = qbound_report::parse("input x : Q0.15 in [-1, 0.5]\nlet y = rescale(x, Q0.7, nearest-even, saturate)\noutput y budget 1 ulp")?;
 //! let report = qbound_report::analyze(&path).report(&path);
 //! let mut out = Vec::new();
-//! render::render(&report, &Context::new("example.q"), Style::Markdown, &mut out)?;
+//! render::render(&report, &Context::new("example.qbdp"), Style::Markdown, &mut out)?;
 //! assert!(String::from_utf8(out)?.contains("| y |"));
 //! # Ok::<(), Box<dyn std::error::Error>>(())
 //! ```
@@ -76,7 +76,7 @@ impl Context {
     /// A context with a title and nothing else.
     ///
     /// ```
-    /// let c = qbound_report::render::Context::new("fir.q");
+    /// let c = qbound_report::render::Context::new("fir.qbdp");
     /// assert!(!c.color);
     /// ```
     #[must_use]

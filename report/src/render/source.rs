@@ -9,7 +9,7 @@ use crate::model::parse::ParseError;
 ///
 /// ```text
 /// error: expected a format such as Q1.15, found `Q1.x`
-///   --> fir.q:3:11
+///   --> fir.qbdp:3:11
 ///    |
 ///  3 | input x : Q1.x in [-1, 1]
 ///    |           ^^^^ expected a format such as Q1.15
@@ -21,9 +21,9 @@ use crate::model::parse::ParseError;
 /// let text = "input x : Q0.15 in [-1, 1\n";
 /// let err = qbound_report::parse(text).unwrap_err();
 /// let mut out = Vec::new();
-/// qbound_report::render::source::parse_error(&err, text, "x.q", false, &mut out)?;
+/// qbound_report::render::source::parse_error(&err, text, "x.qbdp", false, &mut out)?;
 /// let shown = String::from_utf8(out)?;
-/// assert!(shown.contains("--> x.q:1:"));
+/// assert!(shown.contains("--> x.qbdp:1:"));
 /// assert!(shown.contains("\n1 | input x : Q0.15 in [-1, 1\n"));
 /// assert!(shown.contains('^'));
 /// # Ok::<(), Box<dyn std::error::Error>>(())

@@ -1,4 +1,4 @@
-//! The 64-tap FIR (report/examples/fir64.q): quantized coefficients, exact
+//! The 64-tap FIR (report/examples/fir64.qbdp): quantized coefficients, exact
 //! 40-bit accumulation, one final rounding. The bound must be within 1% of
 //! the worst error the simulation finds.
 
@@ -6,7 +6,7 @@ use crate::common::{ExactExt, audit};
 
 #[test]
 fn fir64_bound_within_one_percent_of_worst_simulated() {
-    let text = include_str!("../../examples/fir64.q");
+    let text = include_str!("../../examples/fir64.qbdp");
     let (_, r) = audit(text, 2000);
     let out = &r.outputs[0];
     let m = out.measured.as_ref().unwrap();

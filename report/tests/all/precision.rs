@@ -92,13 +92,13 @@ fn compare(name: &str, path: &Datapath) -> (Analysis, Analysis) {
 
 fn files() -> Vec<(&'static str, &'static str)> {
     vec![
-        ("load_cell", include_str!("../../demos/load_cell.q")),
-        ("motor_pi", include_str!("../../demos/motor_pi.q")),
-        ("tone_power", include_str!("../../demos/tone_power.q")),
-        ("vibration_fir", include_str!("../../demos/vibration_fir.q")),
-        ("fir64", include_str!("../../examples/fir64.q")),
-        ("power", include_str!("../../examples/power.q")),
-        ("sensor", include_str!("../../examples/sensor.q")),
+        ("load_cell", include_str!("../../demos/load_cell.qbdp")),
+        ("motor_pi", include_str!("../../demos/motor_pi.qbdp")),
+        ("tone_power", include_str!("../../demos/tone_power.qbdp")),
+        ("vibration_fir", include_str!("../../demos/vibration_fir.qbdp")),
+        ("fir64", include_str!("../../examples/fir64.qbdp")),
+        ("power", include_str!("../../examples/power.qbdp")),
+        ("sensor", include_str!("../../examples/sensor.qbdp")),
     ]
 }
 

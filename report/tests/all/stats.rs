@@ -32,17 +32,17 @@ fn check(name: &str, text: &str, vectors: u64) {
 
 #[test]
 fn fir64_noise_model() {
-    check("fir64", include_str!("../../examples/fir64.q"), 20_000);
+    check("fir64", include_str!("../../examples/fir64.qbdp"), 20_000);
 }
 
 #[test]
 fn sensor_noise_model() {
-    check("sensor", include_str!("../../examples/sensor.q"), 20_000);
+    check("sensor", include_str!("../../examples/sensor.qbdp"), 20_000);
 }
 
 #[test]
 fn power_noise_model() {
-    check("power", include_str!("../../examples/power.q"), 20_000);
+    check("power", include_str!("../../examples/power.qbdp"), 20_000);
 }
 
 #[test]
